@@ -1,0 +1,1 @@
+"""The lark grammars, shipped as package data (``normform.grammars``)."""
