@@ -1,0 +1,1 @@
+"""Lint rules, one module per category; see ``normform.lint.registry``."""

@@ -1,0 +1,72 @@
+"""Run :func:`normform.batch.process.process_chunk` over a stream of chunks.
+
+Every engine yields results in input order and keeps only a bounded number
+of chunks in flight, so reading stays streaming (``Pool.imap`` would read
+the whole input ahead) and memory stays flat.
+
+* ``local``, 1 job: in this process.
+* ``local``, N jobs: a :class:`~concurrent.futures.ProcessPoolExecutor`.
+* ``dask``: futures on an existing ``dask.distributed`` scheduler; dask is
+  imported only here and only when chosen.
+"""
+
+from __future__ import annotations
+
+import collections
+import os
+from typing import Iterable, Iterator
+
+from normform.batch.process import Settings, process_chunk
+
+Chunk = tuple[list, int]   # (items, first record number)
+
+
+def default_jobs() -> int:
+    try:
+        return max(1, len(os.sched_getaffinity(0)))
+    except AttributeError:  # pragma: no cover - not Linux
+        return max(1, os.cpu_count() or 1)
+
+
+def _ordered(submit, chunks: Iterable[Chunk], window: int, result) -> Iterator[tuple[Chunk, list]]:
+    pending: collections.deque = collections.deque()
+    for chunk in chunks:
+        pending.append((chunk, submit(chunk)))
+        if len(pending) >= window:
+            done, future = pending.popleft()
+            yield done, result(future)
+    while pending:
+        done, future = pending.popleft()
+        yield done, result(future)
+
+
+def run_local(chunks: Iterable[Chunk], settings: Settings, jobs: int) -> Iterator[tuple[Chunk, list]]:
+    if jobs <= 1:
+        for chunk in chunks:
+            yield chunk, process_chunk(chunk[0], chunk[1], settings)
+        return
+    import multiprocessing
+    from concurrent.futures import ProcessPoolExecutor
+
+    # fork: workers start fast and inherit what is already imported.
+    context = multiprocessing.get_context("fork")
+    executor = ProcessPoolExecutor(max_workers=jobs, mp_context=context)
+    try:
+        yield from _ordered(lambda c: executor.submit(process_chunk, c[0], c[1], settings),
+                            chunks, 3 * jobs, lambda f: f.result())
+    finally:
+        executor.shutdown(wait=True, cancel_futures=True)
+
+
+def run_dask(chunks: Iterable[Chunk], settings: Settings, scheduler: str) -> Iterator[tuple[Chunk, list]]:
+    try:
+        from distributed import Client
+    except ImportError as exc:  # optional extra
+        raise RuntimeError("--engine dask needs the optional extra: pip install 'normform[dask]'") from exc
+    client = Client(scheduler, set_as_default=False, timeout="20s")
+    try:
+        threads = sum(client.nthreads().values()) or 1
+        yield from _ordered(lambda c: client.submit(process_chunk, c[0], c[1], settings, pure=False),
+                            chunks, 2 * threads + 1, lambda f: f.result())
+    finally:
+        client.close()

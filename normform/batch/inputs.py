@@ -1,0 +1,259 @@
+"""Read batch inputs as one ordered stream of :class:`Item` s.
+
+Three input shapes, chosen per file:
+
+* plain text (any other suffix): one reference per line;
+* JSON Lines (``.jsonl``/``.ndjson``): objects ``{"id", "text"}`` (one
+  reference each) or catalogue entries (objects with ``references`` and/or
+  ``formulas``);
+* catalogue entry files (``.toml``/``.json``) and directories of them.
+
+Nothing is lost: a line that is not valid UTF-8 is decoded with
+replacement characters and flagged with its byte offset; a JSON Lines line
+that is not JSON becomes a reference item of its raw text, flagged.  Blank
+lines are the only thing not turned into items, and they are counted.
+Files are read in binary and in order, so the stream is deterministic and a
+resumed run can skip exactly the items already done.
+"""
+
+from __future__ import annotations
+
+import json
+import os
+from dataclasses import dataclass, field
+from pathlib import Path
+from typing import Iterator
+
+TEXT, JSONL, ENTRY = "text", "jsonl", "entry"
+ENTRY_SUFFIXES = (".toml", ".json")
+JSONL_SUFFIXES = (".jsonl", ".ndjson")
+
+
+@dataclass(frozen=True, slots=True)
+class Item:
+    """One unit of work: a reference line, or a formula of an entry."""
+
+    what: str                      # "ref" or "formula"
+    text: str
+    file: str
+    line: int | None               # 1-based physical line, when known
+    entry: str | None = None       # catalogue entry id, for entry inputs
+    index: int | None = None       # position inside the entry's list
+    flags: tuple[tuple[str, object], ...] = ()   # ("invalid_utf8", byte offset), ...
+
+    def flag(self, name: str):
+        for key, value in self.flags:
+            if key == name:
+                return value
+        return None
+
+
+@dataclass
+class ReadStats:
+    """What the readers saw, for the lines-in == records-out check."""
+
+    lines: int = 0                 # physical lines of text / JSON Lines inputs
+    blank: int = 0
+    entry_files: int = 0
+    invalid_utf8: list[tuple[str, int, int]] = field(default_factory=list)  # (file, line, byte offset)
+    problems: list[str] = field(default_factory=list)
+    unreadable: list[str] = field(default_factory=list)
+
+
+class InputError(Exception):
+    """An input that cannot be read at all (missing, unreadable entry file)."""
+
+
+def input_kind(path: Path) -> str:
+    suffix = path.suffix.lower()
+    if path.is_dir() or suffix in ENTRY_SUFFIXES:
+        return ENTRY
+    if suffix in JSONL_SUFFIXES:
+        return JSONL
+    return TEXT
+
+
+def expand(paths: list[str]) -> list[Path]:
+    """Inputs with directories replaced by their entry files, sorted (stable order)."""
+    out: list[Path] = []
+    for name in paths:
+        path = Path(name)
+        if not path.exists():
+            raise InputError(f"{name}: no such file or directory")
+        if path.is_dir():
+            found = sorted(p for p in path.rglob("*") if p.is_file() and p.suffix.lower() in ENTRY_SUFFIXES)
+            out.extend(found)
+        else:
+            out.append(path)
+    return out
+
+
+def fingerprint(paths: list[Path]) -> list[list]:
+    """Identity of the inputs, stored with a checkpoint so a resume reads the same data."""
+    rows = []
+    for path in paths:
+        st = path.stat()
+        rows.append([str(path), st.st_size, st.st_mtime_ns])
+    return rows
+
+
+def _decode(raw: bytes, file: str, lineno: int, offset: int, stats: ReadStats) -> tuple[str, tuple]:
+    try:
+        return raw.decode("utf-8"), ()
+    except UnicodeDecodeError as exc:
+        where = offset + exc.start
+        stats.invalid_utf8.append((file, lineno, where))
+        return raw.decode("utf-8", errors="replace"), (("invalid_utf8", where),)
+
+
+def _physical_lines(path: Path) -> Iterator[tuple[int, int, bytes]]:
+    """(1-based line number, byte offset of the line, bytes without EOL)."""
+    offset = 0
+    with open(path, "rb") as handle:
+        for lineno, raw in enumerate(handle, start=1):
+            start = offset
+            offset += len(raw)
+            body = raw.rstrip(b"\n").rstrip(b"\r")
+            if lineno == 1 and body.startswith(b"\xef\xbb\xbf"):   # UTF-8 BOM
+                body, start = body[3:], start + 3
+            yield lineno, start, body
+
+
+def read_text(path: Path, stats: ReadStats) -> Iterator[Item]:
+    name = str(path)
+    for lineno, start, body in _physical_lines(path):
+        stats.lines += 1
+        if not body.strip():
+            stats.blank += 1
+            continue
+        text, flags = _decode(body, name, lineno, start, stats)
+        yield Item("ref", text.strip(), name, lineno, flags=flags)
+
+
+def read_jsonl(path: Path, stats: ReadStats) -> Iterator[Item]:
+    name = str(path)
+    for lineno, start, body in _physical_lines(path):
+        stats.lines += 1
+        if not body.strip():
+            stats.blank += 1
+            continue
+        text, flags = _decode(body, name, lineno, start, stats)
+        try:
+            obj = json.loads(text)
+        except json.JSONDecodeError as exc:
+            msg = f"{name}:{lineno}:{exc.colno}: not JSON ({exc.msg}); kept as a reference line"
+            stats.problems.append(msg)
+            yield Item("ref", text.strip(), name, lineno,
+                       flags=flags + (("bad_json", f"column {exc.colno}: {exc.msg}"),))
+            continue
+        if isinstance(obj, dict) and isinstance(obj.get("text"), str):
+            ident = obj.get("id")
+            yield Item("ref", obj["text"].strip(), name, lineno,
+                       entry=None if ident is None else str(ident), flags=flags)
+        elif isinstance(obj, dict) and ("references" in obj or "formulas" in obj):
+            yield from entry_items(obj, name, lineno, flags)
+        else:
+            msg = f"{name}:{lineno}:1: expected an object with \"text\" or an entry; kept as a reference line"
+            stats.problems.append(msg)
+            yield Item("ref", text.strip(), name, lineno,
+                       flags=flags + (("bad_json", "expected {\"id\", \"text\"} or an entry"),))
+
+
+def _text_of(value) -> str | None:
+    """A reference/formula given as a string or a table with a text-like key."""
+    if isinstance(value, str):
+        return value
+    if isinstance(value, dict):
+        for key in ("text", "raw", "formula", "expr", "value"):
+            if isinstance(value.get(key), str):
+                return value[key]
+    return None
+
+
+def entry_items(entry: dict, file: str, line: int | None, flags: tuple = (),
+                lines: dict | None = None) -> Iterator[Item]:
+    """Items of one catalogue entry: its references, then its formulas.
+
+    ``lines`` optionally maps ("references"|"formulas", index) to a line
+    number inside the file, when the loader knows positions.
+    """
+    ident = entry.get("id")
+    ident = None if ident is None else str(ident)
+    for section, what in (("references", "ref"), ("formulas", "formula")):
+        values = entry.get(section) or []
+        if isinstance(values, (str, dict)):
+            values = [values]
+        for index, value in enumerate(values):
+            text = _text_of(value)
+            extra: tuple = ()
+            if text is None and what == "ref" and isinstance(value, dict):
+                # a structured reference: carried as sorted JSON, converted on the worker
+                text = json.dumps(value, ensure_ascii=False, sort_keys=True, default=str)
+                extra = (("structured", True),)
+            elif text is None:
+                text = json.dumps(value, ensure_ascii=False, sort_keys=True, default=str)
+                extra = (("bad_entry_value", f"{section}[{index}] is not text"),)
+            where = (lines or {}).get((section, index), line)
+            yield Item(what, text.strip(), file, where, entry=ident, index=index, flags=flags + extra)
+
+
+def _load_entry_file(path: Path) -> list[tuple[dict, int | None, dict]]:
+    """(entry mapping, line, positions) for every entry in an entry file.
+
+    Uses the lint area's loader when it is installed (it knows the entry
+    schema and positions); otherwise reads TOML/JSON directly.
+    """
+    from normform.batch import entryfiles
+
+    return entryfiles.load(path)
+
+
+def read_entries(path: Path, stats: ReadStats) -> Iterator[Item]:
+    stats.entry_files += 1
+    name = str(path)
+    from normform.batch.entryfiles import EntryFileError
+
+    try:
+        loaded = _load_entry_file(path)
+    except EntryFileError as exc:
+        # The file cannot be read as entries: report where, keep going.
+        stats.problems.append(exc.describe())
+        stats.unreadable.append(name)
+        return
+    for entry, line, positions in loaded:
+        yield from entry_items(entry, name, line, lines=positions)
+
+
+def iter_items(paths: list[Path], stats: ReadStats) -> Iterator[Item]:
+    """All items of all inputs, in input order."""
+    for path in paths:
+        kind = input_kind(path)
+        if kind == TEXT:
+            yield from read_text(path, stats)
+        elif kind == JSONL:
+            yield from read_jsonl(path, stats)
+        else:
+            yield from read_entries(path, stats)
+
+
+def count_lines(paths: list[Path]) -> int | None:
+    """Fast upper bound on the number of items (for the progress bar's total)."""
+    total = 0
+    for path in paths:
+        if input_kind(path) == ENTRY:
+            return None
+        with open(path, "rb") as handle:
+            last = b""
+            while block := handle.read(1 << 20):
+                total += block.count(b"\n")
+                last = block
+            if last and not last.endswith(b"\n"):
+                total += 1
+    return total
+
+
+def same_file(a: Path, b: Path) -> bool:
+    try:
+        return os.path.samefile(a, b)
+    except OSError:
+        return False

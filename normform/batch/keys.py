@@ -1,0 +1,45 @@
+"""Normalized keys used to block candidate duplicates before fuzzy matching.
+
+Two citations of one work usually agree on the first author's family name
+and the year even when everything else is typed differently; titles agree
+up to case, accents, TeX braces and punctuation.  These functions reduce
+each of those to a plain ASCII key.
+"""
+
+from __future__ import annotations
+
+import re
+import unicodedata
+
+_NON_ALNUM = re.compile(r"[^0-9a-z]+")
+_STOP = frozenset("a an the of on in and for to with from by la le les der die das und de des du".split())
+
+
+def fold(text: str) -> str:
+    """Lower-case ASCII letters and digits separated by single spaces."""
+    text = unicodedata.normalize("NFKD", text)
+    text = "".join(ch for ch in text if not unicodedata.combining(ch))
+    text = text.lower().replace("ß", "ss")
+    return _NON_ALNUM.sub(" ", text).strip()
+
+
+def title_key(title: str | None) -> str:
+    return fold(title) if title else ""
+
+
+def title_prefix(title: str | None, words: int = 3) -> str:
+    """The first few significant words: a second, author-free blocking key."""
+    if not title:
+        return ""
+    tokens = [t for t in title_key(title).split() if t not in _STOP]
+    return " ".join(tokens[:words])
+
+
+def author_key(ref) -> str:
+    """Folded family name of the first author (or editor)."""
+    people = ref.authors or ref.editors
+    if not people:
+        return ""
+    first = people[0]
+    name = first.family or first.literal or ""
+    return fold(name).replace(" ", "")

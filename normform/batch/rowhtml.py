@@ -1,0 +1,71 @@
+"""HTML fragments for one report row, built on the worker.
+
+The original line and the cleaned house-style line are compared token by
+token (words, single punctuation marks, runs of space) with
+:class:`difflib.SequenceMatcher`; what the cleaning removed or changed is
+wrapped in ``<del>`` on the original side, what it added or changed in
+``<ins>`` on the cleaned side.
+"""
+
+from __future__ import annotations
+
+import re
+from difflib import SequenceMatcher
+from html import escape
+
+_TOKEN = re.compile(r"\w+|\s+|[^\w\s]", re.UNICODE)
+
+
+def diff_html(original: str, cleaned: str) -> tuple[str, str]:
+    a, b = _TOKEN.findall(original), _TOKEN.findall(cleaned)
+    left: list[str] = []
+    right: list[str] = []
+    for op, i1, i2, j1, j2 in SequenceMatcher(None, a, b, autojunk=False).get_opcodes():
+        old, new = escape("".join(a[i1:i2])), escape("".join(b[j1:j2]))
+        if op == "equal":
+            left.append(old)
+            right.append(new)
+            continue
+        if old:
+            left.append(f"<del>{old}</del>")
+        if new:
+            right.append(f"<ins>{new}</ins>")
+    return "".join(left), "".join(right)
+
+
+def record_row(seq: int, rid: str, item, house: str, kind: str, confidence: float | None,
+               reasons: list[str], bad_ids: bool, origin: str) -> str:
+    left, right = diff_html(item.text, house)
+    conf = "–" if confidence is None else f"{confidence:.2f}"
+    why = "".join(f"<li>{escape(r)}</li>" for r in reasons)
+    review = "1" if reasons else "0"
+    return (f'<tr id="r{seq}" data-review="{review}" data-kind="{escape(kind)}" '
+            f'data-badid="{int(bad_ids)}">'
+            f'<td class="n"><a href="#r{seq}" title="{escape(origin)}">{escape(origin)}</a></td>'
+            f'<td class="orig">{left}</td><td class="clean">{right}</td>'
+            f'<td class="kind">{escape(kind)}</td><td class="conf">{conf}</td>'
+            f'<td class="why"><ul>{why}</ul></td></tr>\n')
+
+
+def _well_formed(mathml: str) -> str | None:
+    """None when ``mathml`` parses as XML, else the parser's message."""
+    from lxml import etree
+
+    try:
+        etree.fromstring(mathml.encode("utf-8"))
+    except etree.XMLSyntaxError as exc:
+        return str(exc)
+    return None
+
+
+def formula_row(item, mathml: str | None, ascii_form: str | None, error: str | None) -> str:
+    where = escape(f"{item.entry or ''} {item.file}:{item.line or ''}".strip())
+    if error is None and mathml is not None:
+        bad = _well_formed(mathml)
+        if bad:
+            error, mathml = f"renderer produced malformed MathML: {bad}", None
+    if error is not None:
+        return (f'<tr class="bad"><td class="n">{where}</td><td class="orig">{escape(item.text)}</td>'
+                f'<td class="math" colspan="2"><span class="err">{escape(error)}</span></td></tr>\n')
+    return (f'<tr><td class="n">{where}</td><td class="orig">{escape(item.text)}</td>'
+            f'<td class="math">{mathml}</td><td class="ascii"><code>{escape(ascii_form or "")}</code></td></tr>\n')

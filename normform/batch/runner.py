@@ -1,0 +1,238 @@
+"""``clean()``: read, process, checkpoint, cluster, summarise, report.
+
+The Python API behind ``normform clean``::
+
+    from normform.batch.runner import clean
+    result = clean(["legacy.txt"], "cleaned/")
+    result.records, result.needs_review, result.clusters
+"""
+
+from __future__ import annotations
+
+import dataclasses
+import itertools
+import json
+import os
+import sys
+import time
+from dataclasses import dataclass
+from pathlib import Path
+from typing import Iterator, TextIO
+
+from normform.batch import clusters as clustering
+from normform.batch import engines, inputs, stats
+from normform.batch.process import Settings, dumps
+from normform.batch.store import Store, atomic_write
+
+OUTPUTS = ("records.jsonl", "references.bib", "needs-review.jsonl", "clusters.jsonl",
+           "summary.json", "report.html")
+# part file -> final name (the three streamed outputs are renamed into place)
+_RENAMED = {"records": "records.jsonl", "bib": "references.bib", "review": "needs-review.jsonl"}
+
+
+class CleanError(Exception):
+    """Bad arguments or inputs (reported with exit code 2)."""
+
+
+@dataclass
+class CleanResult:
+    lines_in: int
+    blank: int
+    references_read: int
+    records: int
+    needs_review: int
+    clusters: int
+    seconds: float
+    resumed: bool
+    problems: list[str]
+
+    @property
+    def ok(self) -> bool:
+        return self.records == self.references_read
+
+
+def _chunks(items: Iterator, size: int, first_seq: int, counter: dict) -> Iterator[tuple[list, int]]:
+    seq = first_seq
+    while True:
+        chunk = list(itertools.islice(items, size))
+        if not chunk:
+            return
+        counter["items"] += len(chunk)
+        yield chunk, seq
+        seq += sum(1 for item in chunk if item.what == "ref")
+
+
+def _check_outputs_do_not_clobber(paths: list[Path], outdir: Path) -> None:
+    for path in paths:
+        for name in OUTPUTS:
+            if inputs.same_file(path, outdir / name):
+                raise CleanError(f"input {path} is also an output ({outdir / name}); choose another -o")
+        if outdir.resolve() / ".normform-work" in path.resolve().parents:
+            raise CleanError(f"input {path} is inside the work directory of {outdir}")
+
+
+def clean(paths_in: list[str], outdir: str | Path, *, threshold: float = 0.9, jobs: int | None = None,
+          engine: str = "local", scheduler: str | None = None, resume: bool = False,
+          quiet: bool = False, chunk_size: int = 500, report_rows: int = 20000,
+          similarity: float = 90.0, against: str | None = None, toolkit: str | None = None,
+          err: TextIO | None = None, progress_interval: float = 5.0) -> CleanResult:
+    err = err or sys.stderr
+    outdir = Path(outdir)
+    try:
+        paths = inputs.expand(paths_in)
+    except inputs.InputError as exc:
+        raise CleanError(str(exc)) from None
+    if not paths:
+        raise CleanError("no input files (directories hold no .toml/.json entry files)")
+    if engine == "dask" and not scheduler:
+        raise CleanError("--engine dask needs --scheduler ADDRESS (e.g. tcp://10.0.0.5:8786)")
+    if engine not in ("local", "dask"):
+        raise CleanError(f"unknown engine {engine!r}; choose local or dask")
+    if not 0.0 <= threshold <= 1.0:
+        raise CleanError("--threshold must be between 0 and 1")
+    if chunk_size < 1:
+        raise CleanError("--chunk-size must be at least 1")
+    if against is not None and not Path(against).exists():
+        raise CleanError(f"--against {against}: no such file")
+    outdir.mkdir(parents=True, exist_ok=True)
+    _check_outputs_do_not_clobber(paths, outdir)
+
+    settings = Settings(threshold=threshold, report_rows=report_rows,
+                        against=str(Path(against).resolve()) if against else None,
+                        **({"toolkit": toolkit} if toolkit else {}))
+    identity = {"inputs": inputs.fingerprint(paths), "settings": dataclasses.asdict(settings),
+                "similarity": similarity}
+    from normform.batch.store import ResumeError
+
+    try:
+        store, resumed = Store.open(outdir, identity, resume)
+    except ResumeError as exc:
+        raise CleanError(str(exc)) from None
+    if resume and not resumed and not quiet:
+        err.write("clean: nothing to resume, starting from the beginning\n")
+
+    state = store.state
+    if state["phase"] == "renaming":
+        return _complete(store, err, quiet, resumed=True)
+    totals = state["totals"] or stats.empty()
+    started = time.monotonic()
+    earlier = state["seconds"]
+    read = inputs.ReadStats()
+    counted = {"refs": 0}
+
+    def counting(items):
+        for item in items:
+            if item.what == "ref":
+                counted["refs"] += 1
+            yield item
+
+    stream = counting(inputs.iter_items(paths, read))
+    skipped = sum(1 for _ in itertools.islice(stream, state["items_done"]))
+    if skipped != state["items_done"]:
+        raise CleanError("the inputs are shorter than the checkpoint says; run without --resume")
+
+    total = inputs.count_lines(paths)
+    progress = Progress(total, quiet=quiet, stream=err, initial=state["items_done"],
+                        interval=progress_interval)
+    counter = {"items": 0}
+    chunks = _chunks(stream, chunk_size, state["records_done"] + 1, counter)
+    if engine == "dask":
+        results = engines.run_dask(chunks, settings, scheduler)
+    else:
+        results = engines.run_local(chunks, settings, jobs or engines.default_jobs())
+    try:
+        for (items, _), chunk_results in results:
+            store.commit_chunk(chunk_results, len(items), totals,
+                               earlier + time.monotonic() - started)
+            progress.update(len(items))
+    finally:
+        progress.close()
+        close = getattr(results, "close", None)
+        if close:
+            close()
+
+    seconds = earlier + time.monotonic() - started
+    result = _finish(store, paths, read, counted["refs"], totals, settings, similarity, seconds, err, quiet)
+    result.resumed = resumed
+    return result
+
+
+def _finish(store: Store, paths: list[Path], read: inputs.ReadStats, refs: int, totals: dict,
+            settings: Settings, similarity: float, seconds: float, err: TextIO, quiet: bool) -> CleanResult:
+    from normform.batch import report
+
+    store.close_parts()
+    work, outdir = store.work, store.outdir
+    db = store.db
+    db.execute("CREATE INDEX IF NOT EXISTS keys_ay ON keys(author, year, seq)")
+    db.execute("CREATE INDEX IF NOT EXISTS keys_py ON keys(prefix, year, seq)")
+    db.execute("CREATE INDEX IF NOT EXISTS keys_t ON keys(textkey, seq)")
+    groups = clustering.find(db, similarity)
+
+    def member(seq: int) -> dict:
+        offset, length = db.execute("SELECT offset, length FROM keys WHERE seq=?", (seq,)).fetchone()
+        return store.record_at(offset, length)
+
+    clustered = 0
+    cluster_tmp = work / "clusters.part"
+    with open(cluster_tmp, "w", encoding="utf-8") as handle:
+        for number, group in enumerate(groups, start=1):
+            clustered += len(group)
+            best = member(clustering.canonical(db, group))
+            members = []
+            for seq in group:
+                rec = member(seq)
+                members.append({"id": rec["id"], "seq": seq, "file": rec["origin"]["file"],
+                                "line": rec["origin"]["line"], "entry": rec["origin"]["entry"],
+                                "text": rec["text"], "house": rec["house"],
+                                "confidence": rec["confidence"]})
+            handle.write(dumps({"cluster": number, "size": len(group),
+                                "canonical": {k: best[k] for k in ("id", "seq", "origin", "text", "house", "csl")},
+                                "members": members}) + "\n")
+
+    lines_in = read.lines
+    summary = stats.summary(totals, lines_in=lines_in, blank=read.blank, clusters=len(groups),
+                            clustered=clustered, threshold=settings.threshold,
+                            inputs=[str(p) for p in paths], seconds=seconds)
+    summary["references_read"] = refs
+    summary["entry_files"] = read.entry_files
+    summary["problems"] = read.problems
+    summary["invalid_utf8"] = [{"file": f, "line": ln, "byte_offset": off} for f, ln, off in read.invalid_utf8]
+    summary_text = json.dumps(summary, ensure_ascii=False, sort_keys=True, indent=2) + "\n"
+    report_tmp = work / "report.part"
+    report.write(report_tmp, summary, rows=store.part("rows"), formulas=store.part("formulas"),
+                 clusters=cluster_tmp, row_limit=settings.report_rows)
+
+    atomic_write(work / "summary.part", summary_text)
+    store.set_phase("renaming")
+    return _complete(store, err, quiet, resumed=False)
+
+
+def _complete(store: Store, err: TextIO, quiet: bool, resumed: bool) -> CleanResult:
+    """Move every finished file into OUTDIR (idempotent: a resume may repeat it)."""
+    work, outdir = store.work, store.outdir
+    moves = {f"{part}.part": final for part, final in _RENAMED.items()}
+    moves.update({"clusters.part": "clusters.jsonl", "report.part": "report.html",
+                  "summary.part": "summary.json"})
+    for part, final in moves.items():
+        if (work / part).exists():
+            os.replace(work / part, outdir / final)
+    summary = json.loads((outdir / "summary.json").read_text("utf-8"))
+    # Lines in == records out, counted again from the file actually written.
+    with open(outdir / "records.jsonl", "rb") as handle:
+        written = sum(1 for _ in handle)
+    store.remove()
+    if not quiet:
+        for bad in summary["invalid_utf8"]:
+            err.write(f"{bad['file']}:{bad['line']}: invalid UTF-8 at byte offset {bad['byte_offset']}; "
+                      "kept, decoded with replacement characters, flagged for review\n")
+        for problem in summary["problems"]:
+            err.write(f"{problem}\n")
+    return CleanResult(lines_in=summary["lines_in"], blank=summary["blank_lines"],
+                       references_read=summary["references_read"], records=written,
+                       needs_review=summary["needs_review"], clusters=summary["clusters"],
+                       seconds=summary["run"]["seconds"], resumed=resumed,
+                       problems=list(summary["problems"]))
+
+
+from normform.batch.progress import Progress  # noqa: E402  (kept light: no tqdm import until used)

@@ -1,0 +1,160 @@
+"""The work directory of a run: append-only part files plus a checkpoint.
+
+Layout (inside ``OUTDIR/.normform-work/``)::
+
+    records.part  bib.part  review.part  rows.part  formulas.part
+    state.sqlite  -- table ``state`` (one JSON checkpoint), table ``keys``
+                     (per-record blocking keys and the record's byte offset)
+
+A chunk is done when its part-file bytes are flushed *and* the sqlite
+transaction that stores its keys and the new checkpoint (part sizes, item
+count, running totals) commits.  A kill at any moment leaves the part files
+at or beyond the sizes in the last checkpoint; ``--resume`` truncates them
+back and carries on from the next item, so no record is duplicated or lost.
+"""
+
+from __future__ import annotations
+
+import json
+import os
+import shutil
+import sqlite3
+from pathlib import Path
+
+WORK = ".normform-work"
+PARTS = ("records", "bib", "review", "rows", "formulas")
+VERSION = 1
+
+
+class ResumeError(Exception):
+    """A checkpoint exists but belongs to different inputs or settings."""
+
+
+class Store:
+    def __init__(self, outdir: Path, work: Path, db: sqlite3.Connection, state: dict):
+        self.outdir, self.work, self.db, self.state = outdir, work, db, state
+        self.files = {}
+        if state["phase"] != "running":   # killed while moving finished files into place
+            return
+        for name in PARTS:
+            path = self.part(name)
+            handle = open(path, "r+b" if path.exists() else "w+b")
+            size = state["sizes"][name]
+            handle.truncate(size)         # drop bytes written after the last checkpoint
+            handle.seek(size)
+            self.files[name] = handle
+        self.db.execute("DELETE FROM keys WHERE seq > ?", (state["records_done"],))
+        self.db.commit()
+
+    # -- opening ------------------------------------------------------------
+    @classmethod
+    def open(cls, outdir: Path, identity: dict, resume: bool) -> tuple["Store", bool]:
+        """The store, and whether an earlier run is being resumed."""
+        work = outdir / WORK
+        if resume and (work / "state.sqlite").exists():
+            db = _connect(work / "state.sqlite")
+            row = db.execute("SELECT v FROM state WHERE k='checkpoint'").fetchone()
+            if row is not None:
+                state = json.loads(row[0])
+                if state.get("identity") != identity:
+                    db.close()
+                    raise ResumeError(
+                        f"{work} holds a run of different inputs or settings; "
+                        "run without --resume to start again")
+                return cls(outdir, work, db, state), True
+            db.close()
+        if work.exists():
+            shutil.rmtree(work)
+        work.mkdir(parents=True)
+        db = _connect(work / "state.sqlite")
+        state = {"version": VERSION, "identity": identity, "items_done": 0, "records_done": 0,
+                 "sizes": {name: 0 for name in PARTS}, "totals": None, "seconds": 0.0,
+                 "phase": "running"}
+        db.execute("INSERT INTO state VALUES ('checkpoint', ?)", (json.dumps(state),))
+        db.commit()
+        return cls(outdir, work, db, state), False
+
+    def part(self, name: str) -> Path:
+        return self.work / f"{name}.part"
+
+    # -- progress -----------------------------------------------------------
+    def commit_chunk(self, results: list[dict], items: int, totals: dict, seconds: float) -> None:
+        """Append one chunk's results and checkpoint them, in that order."""
+        from normform.batch import stats
+
+        records, bib, review, rows, formulas = (self.files[n] for n in PARTS)
+        key_rows = []
+        for result in results:
+            stats.add(totals, result)
+            if result["what"] == "formula":
+                formulas.write(result["row"].encode("utf-8"))
+                continue
+            data = (result["record"] + "\n").encode("utf-8")
+            offset = records.tell()
+            records.write(data)
+            bib.write((result["bib"] + "\n").encode("utf-8"))
+            if result["review"] is not None:
+                review.write((result["review"] + "\n").encode("utf-8"))
+            if result["row"] is not None:
+                rows.write(result["row"].encode("utf-8"))
+            author, year, title, prefix, conf, nfields = result["key"]
+            self.state["records_done"] += 1
+            key_rows.append((self.state["records_done"], author, year, title, prefix,
+                             result.get("textkey", ""), conf, nfields, offset, len(data)))
+        for handle in self.files.values():
+            handle.flush()
+        self.state["items_done"] += items
+        self.state["sizes"] = {n: self.files[n].tell() for n in PARTS}
+        self.state["totals"] = totals
+        self.state["seconds"] = seconds
+        with self.db:
+            self.db.executemany("INSERT INTO keys VALUES (?,?,?,?,?,?,?,?,?,?)", key_rows)
+            self._save()
+
+    def _save(self) -> None:
+        self.db.execute("UPDATE state SET v=? WHERE k='checkpoint'", (json.dumps(self.state),))
+
+    def set_phase(self, phase: str) -> None:
+        self.state["phase"] = phase
+        with self.db:
+            self._save()
+
+    def close_parts(self) -> None:
+        for handle in self.files.values():
+            handle.close()
+        self.files = {}
+
+    def record_at(self, offset: int, length: int) -> dict:
+        with open(self.part("records"), "rb") as handle:
+            handle.seek(offset)
+            return json.loads(handle.read(length))
+
+    def remove(self) -> None:
+        self.close_parts()
+        self.db.close()
+        shutil.rmtree(self.work, ignore_errors=True)
+
+
+def _connect(path: Path) -> sqlite3.Connection:
+    db = sqlite3.connect(path)
+    # WAL + NORMAL: a killed process never loses a committed transaction;
+    # only a power cut could, which a re-run from scratch covers.
+    db.execute("PRAGMA journal_mode=WAL")
+    db.execute("PRAGMA synchronous=NORMAL")
+    db.execute("CREATE TABLE IF NOT EXISTS state (k TEXT PRIMARY KEY, v TEXT)")
+    db.execute("CREATE TABLE IF NOT EXISTS keys (seq INTEGER PRIMARY KEY, author TEXT, year INTEGER, "
+               "title TEXT, prefix TEXT, textkey TEXT, conf REAL, nfields INTEGER, "
+               "offset INTEGER, length INTEGER)")
+    return db
+
+
+def atomic_write(path: Path, data: bytes | str) -> None:
+    """Write ``path`` via a temp file in the same directory and a rename."""
+    if isinstance(data, str):
+        data = data.encode("utf-8")
+    tmp = path.with_name(f".{path.name}.tmp-{os.getpid()}")
+    with open(tmp, "wb") as handle:
+        handle.write(data)
+        handle.flush()
+        os.fsync(handle.fileno())
+    os.replace(tmp, path)

@@ -1,0 +1,99 @@
+"""Capitalization hints for titles: which substrings must keep their capitals.
+
+BibTeX styles may lower-case a title; braces protect the parts that must not
+change (acronyms, proper nouns).  A title's hints are the union of explicit
+ones (braces in a source file) and automatic ones:
+
+* a word with a capital after its first letter (``GL``, ``McKay``, ``LaTeX``);
+* in a sentence-case title, a capitalized word that does not open the title
+  or a subtitle (``Riemann`` in "On the Riemann hypothesis").
+
+Hints are kept as the title substrings they cover, in title order; this
+canonical form is what readers store in ``Reference.title_protected``.
+"""
+
+from __future__ import annotations
+
+import re
+
+_WORD = re.compile(r"[^\s]+")
+_EDGE = "\"'“”‘’()[].,;:!?"
+_SMALL = frozenset("a an and as at but by for from in into nor of on or over per the to upon via vs with".split())
+
+
+def _cores(title: str) -> list[tuple[int, int, str, bool]]:
+    """(start, end, word, opens_a_sentence) for each word without edge punctuation."""
+    out = []
+    opens = True
+    for m in _WORD.finditer(title):
+        token = m.group(0)
+        left = len(token) - len(token.lstrip(_EDGE))
+        right = len(token.rstrip(_EDGE))
+        if right > left:
+            out.append((m.start() + left, m.start() + right, token[left:right], opens))
+        opens = token.endswith((":", ".", "?", "!", "—")) or token in ("—", "-", "–")
+    return out
+
+
+def _sentence_case(words: list[tuple[int, int, str, bool]]) -> bool:
+    rest = [w for _, _, w, opens in words if not opens and w.lower() not in _SMALL and w[:1].isalpha()]
+    if not rest:
+        return True
+    capitalized = sum(1 for w in rest if w[0].isupper())
+    return capitalized * 2 < len(rest)
+
+
+def auto_intervals(title: str) -> list[tuple[int, int]]:
+    words = _cores(title)
+    sentence = _sentence_case(words)
+    out = []
+    for start, end, word, opens in words:
+        letters = [ch for ch in word if ch.isalpha()]
+        if not letters:
+            continue
+        mixed = any(ch.isupper() for ch in letters[1:])
+        proper = sentence and not opens and letters[0].isupper()
+        if mixed or proper:
+            out.append((start, end))
+    return out
+
+
+def _occurrences(title: str, hint: str) -> list[tuple[int, int]]:
+    out, pos = [], 0
+    while hint:
+        pos = title.find(hint, pos)
+        if pos < 0:
+            break
+        out.append((pos, pos + len(hint)))
+        pos += len(hint)
+    return out
+
+
+def intervals(title: str, hints: tuple[str, ...] | list[str] = ()) -> list[tuple[int, int]]:
+    """Merged, sorted intervals of the title to protect: explicit hints plus automatic ones."""
+    spans = auto_intervals(title)
+    for hint in hints:
+        spans.extend(_occurrences(title, hint))
+    spans.sort()
+    merged: list[list[int]] = []
+    for start, end in spans:
+        if merged and start < merged[-1][1]:
+            merged[-1][1] = max(merged[-1][1], end)
+        else:
+            merged.append([start, end])
+    return [(a, b) for a, b in merged]
+
+
+def canonical_hints(title: str | None, hints: tuple[str, ...] | list[str] = ()) -> tuple[str, ...]:
+    """The canonical ``title_protected`` value for a title and its explicit hints."""
+    if not title:
+        return ()
+    out: list[str] = []
+    for a, b in intervals(title, hints):
+        text = title[a:b]
+        if text not in out:
+            out.append(text)
+    return tuple(out)
+
+
+__all__ = ["auto_intervals", "intervals", "canonical_hints"]

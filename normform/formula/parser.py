@@ -1,0 +1,965 @@
+"""Text -> :class:`~normform.formula.ast.Statement`.
+
+Three steps: (1) a cheap pre-pass enforces the size and nesting limits and
+splits off a trailing attribution note; (2) the LALR grammar
+``grammars/formula.lark`` builds raw nodes (an embedded transformer, so no
+parse tree is materialised); (3) :class:`_Resolver` decides what each name
+means in context — a function, a sequence term, a variable times a group, a
+constant — and assembles conditions, initial values and piecewise branches.
+"""
+
+from __future__ import annotations
+
+import re
+from dataclasses import dataclass
+from fractions import Fraction
+from typing import Any
+
+from normform.formula import ast as A
+from normform.formula.errors import FormulaError
+from normform.formula.functions import lookup
+
+MAX_LENGTH = 5000
+"""Longest accepted input, in characters."""
+MAX_DEPTH = 120
+"""Deepest accepted nesting: brackets in the text and levels of the tree."""
+
+_parser = None
+
+
+def _get_parser():
+    """Build the LALR parser once per process (``import normform`` stays cheap)."""
+    global _parser
+    if _parser is None:
+        import lark
+
+        from normform.resources import grammar_text
+
+        opts = dict(parser="lalr", lexer="basic", transformer=_Build(), maybe_placeholders=False)
+        try:
+            _parser = lark.Lark(grammar_text("formula.lark"), cache=True, **opts)
+        except Exception:  # cache directory not writable, etc.
+            _parser = lark.Lark(grammar_text("formula.lark"), **opts)
+    return _parser
+
+
+# ------------------------------------------------------------ raw nodes -----
+# Intermediate objects produced by the grammar, replaced by the resolver.
+
+@dataclass(frozen=True)
+class _Name:
+    name: str
+    span: A.Span
+
+
+@dataclass(frozen=True)
+class _Apply:
+    name: str
+    args: tuple
+    span: A.Span
+    bracket: bool = False
+
+
+@dataclass(frozen=True)
+class _Sub:
+    name: str
+    indices: tuple
+    span: A.Span
+
+
+@dataclass(frozen=True)
+class _Arg:
+    kind: str  # "eq", "range", "range_bare", "ge", "div"
+    parts: tuple
+    span: A.Span
+
+
+@dataclass(frozen=True)
+class _BraceList:
+    items: tuple
+    span: A.Span
+
+
+@dataclass(frozen=True)
+class _DotsMark:
+    span: A.Span
+
+
+@dataclass(frozen=True)
+class _Bound:
+    kind: str  # "eq", "ge", "gt", "div", "chain", "range", "var"
+    var: str | None
+    parts: tuple
+    span: A.Span
+
+
+@dataclass(frozen=True)
+class _BigSub:
+    op: str
+    bound: _Bound
+    sup: Any
+    body: Any
+    span: A.Span
+
+
+@dataclass(frozen=True)
+class _BigCall:
+    op: str
+    args: tuple
+    span: A.Span
+
+
+@dataclass(frozen=True)
+class _Rel:
+    ops: tuple
+    operands: tuple
+    modulus: Any
+    mod_span: A.Span | None
+    span: A.Span
+
+
+@dataclass(frozen=True)
+class _Seg:
+    kind: str  # "seg", "with", "for", "if"
+    rel: Any
+    tails: tuple  # (("for"|"if"|"otherwise", cond or None), ...)
+    span: A.Span
+
+
+def _sp(x: Any) -> A.Span:
+    span = getattr(x, "span", None)
+    if span is not None:
+        return span
+    start = getattr(x, "start_pos", None)
+    if start is not None:
+        return (start, x.end_pos)
+    return A.NO_SPAN
+
+
+def _join(*items: Any) -> A.Span:
+    spans = [_sp(i) for i in items if i is not None]
+    spans = [s for s in spans if s != A.NO_SPAN] or [A.NO_SPAN]
+    return (min(s[0] for s in spans), max(s[1] for s in spans))
+
+
+_SUPERSCRIPTS = str.maketrans("⁰¹²³⁴⁵⁶⁷⁸⁹", "0123456789")
+_PROD_WORDS = {"prod", "Prod", "Product", "product", "∏"}
+
+from lark import Transformer as _LarkTransformer  # noqa: E402  (lark is imported lazily via this module)
+
+
+class _Build(_LarkTransformer):
+    """Grammar callbacks: children are lark Tokens and raw/AST nodes."""
+
+    def __default__(self, data, children, meta):  # pragma: no cover - every rule has a callback
+        raise AssertionError(f"no callback for rule {data}")
+
+    # --- statement
+    def start(self, ch):
+        label = None
+        segs = []
+        for c in ch:
+            if getattr(c, "type", None) == "LABEL":
+                label = c
+            elif isinstance(c, _Seg):
+                segs.append(c)
+        return (label, segs)
+
+    def seg(self, ch):
+        return _Seg("seg", ch[0], tuple(ch[1:]), _join(*ch))
+
+    def seg_with(self, ch):
+        return _Seg("with", ch[0], tuple(ch[1:]), _join(*ch))
+
+    def seg_for(self, ch):
+        return _Seg("for", ch[0], (), _join(*ch))
+
+    def seg_if(self, ch):
+        return _Seg("if", ch[0], (), _join(*ch))
+
+    def tail_for(self, ch):
+        return ("for", ch[0])
+
+    def tail_if(self, ch):
+        return ("if", ch[0])
+
+    def tail_otherwise(self, ch):
+        return ("otherwise", None)
+
+    def cond(self, ch):
+        if len(ch) == 1:
+            return ch[0]
+        return A.And(tuple(ch), span=_join(*ch))
+
+    def even(self, ch):
+        return A.Parity(ch[0], True, span=_join(*ch))
+
+    def odd(self, ch):
+        return A.Parity(ch[0], False, span=_join(*ch))
+
+    def rel(self, ch):
+        operands, ops, modulus, mod_span = [ch[0]], [], None, None
+        i = 1
+        while i < len(ch):
+            c = ch[i]
+            if getattr(c, "type", None) == "MODPAREN":
+                modulus, mod_span = ch[i + 1], _join(c, ch[i + 1])
+                break
+            ops.append(c)
+            operands.append(ch[i + 1])
+            i += 2
+        return _Rel(tuple(ops), tuple(operands), modulus, mod_span, _join(*ch))
+
+    _REL = {"≠": "!=", "<>": "!=", "≤": "<=", "⩽": "<=", "≥": ">=", "⩾": ">=", "∼": "~", "≡": "=="}
+
+    def relop(self, ch):
+        return self._REL.get(str(ch[0]), str(ch[0]))
+
+    # --- arithmetic
+    def mod(self, ch):
+        return A.BinOp("mod", ch[0], ch[1], span=_join(*ch))
+
+    def add(self, ch):
+        return A.BinOp("+", ch[0], ch[2], span=_join(*ch))
+
+    def sub(self, ch):
+        return A.BinOp("-", ch[0], ch[2], span=_join(*ch))
+
+    def add_dots(self, ch):
+        return A.BinOp("+", ch[0], _DotsMark(_sp(ch[2])), span=_join(*ch))
+
+    def mul_dots(self, ch):
+        return A.BinOp("*", ch[0], _DotsMark(_sp(ch[2])), span=_join(*ch))
+
+    def neg(self, ch):
+        return A.UnaryOp("-", ch[1], span=_join(*ch))
+
+    def pos(self, ch):
+        return ch[1]
+
+    def mul(self, ch):
+        return A.BinOp("*", ch[0], ch[2], span=_join(*ch))
+
+    def div(self, ch):
+        return A.BinOp("/", ch[0], ch[2], span=_join(*ch))
+
+    def implicit_mul(self, ch):
+        return A.BinOp("*", ch[0], ch[1], implicit=True, span=_join(*ch))
+
+    def power(self, ch):
+        return A.Power(ch[0], ch[2], span=_join(*ch))
+
+    def factorial(self, ch):
+        return A.Factorial(ch[0], False, span=_join(*ch))
+
+    def double_factorial(self, ch):
+        return A.Factorial(ch[0], True, span=_join(*ch))
+
+    def superscript_power(self, ch):
+        tok = str(ch[1])
+        span = _sp(ch[1])
+        if tok == "ⁿ":
+            exp: Any = _Name("n", span)
+        elif "ⁿ" in tok:
+            raise _raw_error("mixed superscript", ch[1])
+        else:
+            exp = A.Integer(int(tok.translate(_SUPERSCRIPTS)), span=span)
+        return A.Power(ch[0], exp, span=_join(*ch))
+
+    # --- atoms
+    def integer(self, ch):
+        return A.Integer(int(ch[0]), span=_sp(ch[0]))
+
+    def decimal(self, ch):
+        return A.Decimal(str(ch[0]), Fraction(str(ch[0])), span=_sp(ch[0]))
+
+    def name(self, ch):
+        return _Name(str(ch[0]), _sp(ch[0]))
+
+    def apply(self, ch):
+        return _Apply(str(ch[0]), ch[1], _join(*ch))
+
+    def args(self, ch):
+        return tuple(ch)
+
+    def subscript(self, ch):
+        sub = ch[1]
+        indices = sub if isinstance(sub, tuple) else (sub,)
+        return _Sub(str(ch[0]), indices, _join(ch[0], *indices))
+
+    def sub_list(self, ch):
+        return tuple(ch)
+
+    def brace_list(self, ch):
+        return _BraceList(tuple(ch), _join(*ch))
+
+    def gauss_floor(self, ch):
+        return A.Call("floor", (ch[0],), written="[]", span=_sp(ch[0]))
+
+    def gauss_ceil(self, ch):
+        return A.Call("ceiling", (ch[0],), written="⌈⌉", span=_sp(ch[0]))
+
+    def sqrt_sign(self, ch):
+        return A.Call("sqrt", (ch[1],), written="√", span=_join(*ch))
+
+    def bigop(self, ch):
+        return ("prod" if str(ch[0]) in _PROD_WORDS else "sum", _sp(ch[0]))
+
+    def bigop_sub(self, ch):
+        (op, span), bound = ch[0], ch[1]
+        sup = ch[2] if len(ch) == 4 else None
+        body = ch[-1]
+        return _BigSub(op, bound, sup, body, (span[0], _join(body)[1]))
+
+    def bigop_call(self, ch):
+        (op, span), args = ch
+        return _BigCall(op, args, (span[0], _join(*args)[1]))
+
+    def bounds(self, ch):
+        return ch[0]
+
+    def bound_eq(self, ch):
+        parts = (ch[1],) if len(ch) == 2 else (ch[1], ch[3])
+        return _Bound("eq", str(ch[0]), parts, _join(*ch))
+
+    def bound_ge(self, ch):
+        return _Bound("ge", str(ch[0]), (ch[2],), _join(*ch))
+
+    def bound_gt(self, ch):
+        return _Bound("gt", str(ch[0]), (ch[1],), _join(*ch))
+
+    def bound_div(self, ch):
+        return _Bound("div", str(ch[0]), (ch[1],), _join(*ch))
+
+    def bound_chain(self, ch):
+        return _Bound("chain", str(ch[2]), (ch[0], ch[4]), _join(*ch))
+
+    def bound_range(self, ch):
+        return _Bound("range", None, (ch[0], ch[2]), _join(*ch))
+
+    def bound_var(self, ch):
+        return _Bound("var", str(ch[0]), (), _sp(ch[0]))
+
+    def sup(self, ch):
+        return ch[1]
+
+    def range_sep(self, ch):
+        return ch[0]
+
+    def arg_eq(self, ch):
+        return _Arg("eq", (ch[0], ch[1]), _join(*ch))
+
+    def arg_range(self, ch):
+        return _Arg("range", (ch[0], ch[1], ch[3]), _join(*ch))
+
+    def arg_range_bare(self, ch):
+        return _Arg("range_bare", (ch[0], ch[2]), _join(*ch))
+
+    def arg_ge(self, ch):
+        return _Arg("ge", (ch[0], ch[2]), _join(*ch))
+
+    def arg_div(self, ch):
+        return _Arg("div", (_Name(str(ch[0]), _sp(ch[0])), ch[1]), _join(*ch))
+
+
+def _raw_error(message: str, token: Any) -> Exception:
+    return _PendingError(message, _sp(token))
+
+
+class _PendingError(Exception):
+    def __init__(self, message: str, span: A.Span):
+        super().__init__(message)
+        self.message = message
+        self.span = span
+
+
+# ------------------------------------------------------------ pre-pass ------
+
+_NOTE_RES = [
+    # " - Ada Quill, Mar 03 2019" / " -- A. Quill, 2019"
+    re.compile(r"\s+(?:-{1,2}|—|–)\s*(_?[A-Z][\w.'’-]*(?:\s+(?:[a-z]{1,3}\s+)?[A-Z][\w.'’-]*)*_?\s*,.*\d{4}.*?)\s*$"),
+    # " - _Ada Quill_ ..." (underscored name, date optional)
+    re.compile(r"\s+(?:-{1,2}|—|–)\s*(_[^_]+_.*?)\s*$"),
+]
+
+
+def split_note(text: str) -> tuple[str, str | None]:
+    """Split trailing attribution text (a contributor's name and a date) from the formula."""
+    for rx in _NOTE_RES:
+        m = rx.search(text)
+        if m:
+            return text[: m.start()], m.group(1)
+    return text, None
+
+
+_OPEN, _CLOSE = "([{⌊⌈", ")]}⌋⌉"
+
+
+def _check_limits(text: str) -> None:
+    if len(text) > MAX_LENGTH:
+        raise FormulaError(f"formula longer than {MAX_LENGTH} characters ({len(text)})",
+                           line=1, column=MAX_LENGTH + 1, source=text[: MAX_LENGTH + 40],
+                           offending=text[MAX_LENGTH:MAX_LENGTH + 20],
+                           expected=(f"at most {MAX_LENGTH} characters",))
+    depth = 0
+    for i, ch in enumerate(text):
+        if ch in _OPEN:
+            depth += 1
+            if depth > MAX_DEPTH:
+                _fail(text, i, f"brackets nested deeper than {MAX_DEPTH}",
+                      (f"at most {MAX_DEPTH} nested brackets",), ch)
+        elif ch in _CLOSE:
+            depth -= 1
+
+
+def _fail(text: str, offset: int, message: str, expected: tuple[str, ...] = (), offending: str | None = None):
+    line, col = A.line_col(text, offset)
+    if offending is None:
+        offending = text[offset:offset + 1]
+    raise FormulaError(message, line=line, column=col, source=text, expected=expected, offending=offending)
+
+
+# ------------------------------------------------------------ lark errors ---
+
+_TERMINAL_TEXT = {
+    "RPAR": "')'", "LPAR": "'('", "RSQB": "']'", "LSQB": "'['", "RBRACE": "'}'", "LBRACE": "'{'",
+    "COMMA": "','", "INT": "a number", "DEC": "a number", "NAME": "a name", "PLUS": "'+'",
+    "MINUS": "'-'", "MUL": "'*'", "DIV": "'/'", "POW": "'^'", "EQUAL": "'='", "RANGE": "'..'",
+    "DOTS": "'...'", "SQRT": "'√'", "END": "end of formula", "$END": "end of input", "LABEL": "a label",
+    "MODPAREN": "'(mod'", "SUM": "a sum", "BANG": "'!'",
+}
+_OPERAND_STARTS = {"INT", "DEC", "NAME", "LPAR", "LSQB", "LBRACE", "SQRT", "MINUS", "PLUS"}
+
+
+def _humanize(expected: set[str]) -> tuple[str, ...]:
+    if not expected:
+        return ()
+    if _OPERAND_STARTS & expected and len(expected) > 6:
+        out = ["an operand (number, name, '(' ...)"]
+        for key in ("RPAR", "RSQB", "RBRACE", "COMMA"):
+            if key in expected:
+                out.append(_TERMINAL_TEXT[key])
+        return tuple(out)
+    names = sorted({_TERMINAL_TEXT.get(e, e.lower().replace("_", " ")) for e in expected
+                    if not e.startswith("__ANON")})
+    return tuple(names[:8])
+
+
+def _lark_error(text: str, exc: Exception) -> FormulaError:
+    from lark.exceptions import UnexpectedCharacters, UnexpectedEOF, UnexpectedToken
+
+    if isinstance(exc, UnexpectedCharacters):
+        ch = text[exc.pos_in_stream] if exc.pos_in_stream < len(text) else ""
+        hint = " (TeX commands are not part of the plain-text syntax)" if ch == "\\" else ""
+        line, col = A.line_col(text, exc.pos_in_stream)
+        return FormulaError(f"unexpected character {ch!r}{hint}", line=line, column=col, source=text,
+                            offending=ch, expected=_humanize(set(exc.allowed or ())))
+    if isinstance(exc, UnexpectedToken):
+        tok = exc.token
+        if tok.type == "$END":
+            offset = len(text.rstrip())
+            line, col = A.line_col(text, offset)
+            return FormulaError("formula ends too early", line=line, column=col, source=text,
+                                offending="", expected=_humanize(set(exc.expected)))
+        line, col = A.line_col(text, tok.start_pos)
+        return FormulaError(f"unexpected {str(tok)!r}", line=line, column=col, source=text,
+                            offending=str(tok), expected=_humanize(set(exc.expected)))
+    if isinstance(exc, UnexpectedEOF):
+        line, col = A.line_col(text, len(text))
+        return FormulaError("formula ends too early", line=line, column=col, source=text, offending="",
+                            expected=_humanize(set(exc.expected)))
+    line, col = A.line_col(text, 0)
+    return FormulaError(f"cannot read formula: {exc}", line=line, column=col, source=text)
+
+
+# ------------------------------------------------------------ entry ---------
+
+def parse_statement(text: str) -> A.Statement:
+    """Parse one formula line into a :class:`Statement`; raise :class:`FormulaError`."""
+    if not isinstance(text, str):
+        raise TypeError("formula text must be a str")
+    _check_limits(text)
+    math, note = split_note(text)
+    if not math.strip():
+        _fail(text, 0, "empty formula", ("a formula",), "")
+    from lark.exceptions import LarkError, VisitError
+
+    try:
+        label, segs = _get_parser().parse(math)
+    except VisitError as exc:  # an error raised inside a callback
+        inner = exc.orig_exc
+        if isinstance(inner, _PendingError):
+            _fail(text, inner.span[0], inner.message)
+        raise
+    except _PendingError as exc:
+        _fail(text, exc.span[0], exc.message)
+    except LarkError as exc:
+        raise _lark_error(text, exc) from None
+    try:
+        stmt = _Resolver(text, label, segs, note).statement()
+    except _PendingError as exc:
+        _fail(text, exc.span[0], exc.message)
+    _check_depth(text, stmt)
+    return stmt
+
+
+def _check_depth(text: str, stmt: A.Statement) -> None:
+    stack = [(stmt, 1)]
+    while stack:
+        node, d = stack.pop()
+        if d > MAX_DEPTH:
+            _fail(text, node.span[0], f"formula nested deeper than {MAX_DEPTH} levels",
+                  (f"at most {MAX_DEPTH} levels",))
+        stack.extend((c, d + 1) for c in node.children())
+
+
+# ------------------------------------------------------------ resolver ------
+
+_CONSTANTS = {
+    "pi": "pi", "Pi": "pi", "PI": "pi", "π": "pi",
+    "e": "e",
+    "phi": "phi", "φ": "phi", "ϕ": "phi", "Phi": "phi",
+    "gamma": "gamma", "γ": "gamma",
+    "infinity": "infinity", "Infinity": "infinity", "inf": "infinity", "oo": "infinity", "∞": "infinity",
+    "I": "i", "i": "i",
+}
+_BOUND_PREFERENCE = ("k", "j", "i", "m", "d", "l", "r", "s", "t")
+
+
+def _raw_children(x: Any):
+    if isinstance(x, (_Name, _DotsMark)):
+        return
+    if isinstance(x, _Apply):
+        yield from x.args
+    elif isinstance(x, _Sub):
+        yield from x.indices
+    elif isinstance(x, (_Arg, _Bound)):
+        yield from x.parts
+    elif isinstance(x, _BraceList):
+        yield from x.items
+    elif isinstance(x, _BigSub):
+        yield x.bound
+        if x.sup is not None:
+            yield x.sup
+        yield x.body
+    elif isinstance(x, _BigCall):
+        yield from x.args
+    elif isinstance(x, _Rel):
+        yield from x.operands
+        if x.modulus is not None:
+            yield x.modulus
+    elif isinstance(x, tuple):
+        yield from (i for i in x if i is not None and not isinstance(i, str))
+    elif isinstance(x, A.Node):
+        from dataclasses import fields
+        for f in fields(x):
+            v = getattr(x, f.name)
+            if f.name == "span":
+                continue
+            if isinstance(v, tuple):
+                for item in v:
+                    if isinstance(item, tuple):
+                        yield from (i for i in item if i is not None)
+                    elif item is not None and not isinstance(item, str):
+                        yield item
+            elif v is not None and not isinstance(v, (str, int, bool, Fraction)):
+                yield v
+
+
+def _raw_walk(x: Any):
+    stack = [x]
+    while stack:
+        cur = stack.pop()
+        yield cur
+        stack.extend(_raw_children(cur))
+
+
+class _Resolver:
+    def __init__(self, text: str, label: Any, segs: list[_Seg], note: str | None):
+        self.text = text
+        self.label_token = label
+        self.segs = segs
+        self.note = note
+        self.bound: list[str] = []
+        # every name used on its own (not applied) anywhere: those are variables
+        self.standalone: set[str] = set()
+        self.applied: set[str] = set()
+        for seg in segs:
+            for node in _raw_walk((seg.rel, seg.tails)):
+                if isinstance(node, _Name):
+                    self.standalone.add(node.name)
+                elif isinstance(node, _Bound) and node.var:
+                    self.standalone.add(node.var)
+                elif isinstance(node, (_Apply, _Sub)):
+                    self.applied.add(node.name)
+        self.sequences: set[str] = set()
+        self.lhs_vars: set[str] = set()
+        self._find_sequences()
+
+    # -- which applied names are sequences (the defined one, unknown names)
+    def _find_sequences(self) -> None:
+        main = self.segs[0].rel if self.segs else None
+        if not isinstance(main, _Rel) or not main.ops:
+            return
+        lhs = main.operands[0]
+        rhs_names = set()
+        for operand in main.operands[1:]:
+            for node in _raw_walk(operand):
+                if isinstance(node, (_Apply, _Sub)):
+                    rhs_names.add(node.name)
+        for node in _raw_walk(lhs):
+            if isinstance(node, (_Apply, _Sub)):
+                args = node.args if isinstance(node, _Apply) else node.indices
+                known = lookup(node.name, len(args)) is not None
+                if not known or node.name in rhs_names:
+                    if node.name in self.standalone and isinstance(node, _Apply) and len(args) == 1 and not known:
+                        continue  # `n(n+1)/2 = ...`: a product, not a definition
+                    self.sequences.add(node.name)
+                    for a in args:
+                        if isinstance(a, _Name):
+                            self.lhs_vars.add(a.name)
+
+    def err(self, message: str, x: Any) -> _PendingError:
+        return _PendingError(message, _sp(x))
+
+    # -- statement assembly
+    def statement(self) -> A.Statement:
+        label = None
+        if self.label_token is not None:
+            label = "egf" if str(self.label_token).lstrip()[:1] in "Ee" else "ogf"
+        segs = self.segs
+        first = segs[0]
+        if first.kind not in ("seg",):
+            raise self.err("a formula must come before its conditions", first)
+        body = self.rel(first.rel, main=True)
+        conditions: list[A.Node] = []
+        initial: list[A.Initial] = []
+        branches: list[list] = []  # [value, cond]
+
+        def take_tails(seg: _Seg, value_node: A.Node | None) -> bool:
+            """Apply tails; return True if the segment became a piecewise branch."""
+            branch = False
+            for kind, cond in seg.tails:
+                if kind == "for":
+                    conditions.append(self.cond(cond))
+                elif kind == "if":
+                    if value_node is None:
+                        raise self.err("'if' without a value", seg)
+                    branches.append([value_node, self.cond(cond)])
+                    branch = True
+                else:
+                    if value_node is None:
+                        raise self.err("'otherwise' without a value", seg)
+                    branches.append([value_node, None])
+                    branch = True
+            return branch
+
+        main_value = body.operands[-1] if isinstance(body, A.Relation) else body
+        piece = take_tails(first, main_value)
+        for seg in segs[1:]:
+            if seg.kind == "for":
+                conditions.append(self.cond(seg.rel))
+                continue
+            if seg.kind == "if":
+                if not branches:
+                    conditions.append(self.cond(seg.rel))
+                else:
+                    if branches[-1][1] is not None:
+                        raise self.err("two conditions for one value", seg)
+                    branches[-1][1] = self.cond(seg.rel)
+                continue
+            raw = seg.rel
+            if seg.tails and any(k != "for" for k, _ in seg.tails) and isinstance(raw, _Rel) and not raw.ops:
+                value = self.expr(raw.operands[0])
+                take_tails(seg, value)
+                piece = True
+                continue
+            init = self.initial(raw) if isinstance(raw, _Rel) else None
+            if init is not None:
+                initial.append(init)
+                take_tails(seg, None)
+                continue
+            if isinstance(raw, _Rel) and raw.ops:
+                conditions.append(self.rel(raw))
+                take_tails(seg, None)
+                continue
+            if piece and not seg.tails:
+                # `a(n) = 1 if n even, 2` : a trailing value without a word is the default
+                branches.append([self.expr(raw.operands[0]), None])
+                continue
+            raise self.err("unexpected clause after the formula", seg)
+        if piece:
+            if any(b[1] is None for b in branches[:-1]):
+                raise self.err("'otherwise' must be the last branch", segs[-1])
+            pw = A.Piecewise(tuple((v, c) for v, c in branches),
+                             span=_join(*(v for v, _ in branches)))
+            if isinstance(body, A.Relation):
+                body = A.Relation(body.ops, body.operands[:-1] + (pw,), body.modulus, span=body.span)
+            else:
+                body = pw
+        span = (0, len(self.text.rstrip()) if self.note is None else _join(*segs)[1])
+        return A.Statement(body, label, tuple(conditions), tuple(initial), self.note, span=span)
+
+    def initial(self, raw: _Rel) -> A.Initial | None:
+        if not raw.ops or any(op != "=" for op in raw.ops) or raw.modulus is not None:
+            return None
+        targets = []
+        for t in raw.operands[:-1]:
+            if not isinstance(t, (_Apply, _Sub)):
+                return None
+            args = t.args if isinstance(t, _Apply) else t.indices
+            if t.name not in self.sequences and lookup(t.name, len(args)) is not None:
+                return None
+            node = self.expr(t)
+            if not isinstance(node, A.SeqRef):
+                node = A.SeqRef(t.name, tuple(self.expr(a) for a in args), span=t.span)
+            if any(A.free_symbols(i) for i in node.indices):
+                return None
+            targets.append(node)
+        value = self.expr(raw.operands[-1])
+        if A.free_symbols(value):
+            return None
+        return A.Initial(tuple(targets), value, span=raw.span)
+
+    def cond(self, raw: Any) -> A.Node:
+        if isinstance(raw, _Rel):
+            return self.rel(raw)
+        if isinstance(raw, A.And):
+            return A.And(tuple(self.cond(i) for i in raw.items), span=raw.span)
+        if isinstance(raw, A.Parity):
+            return A.Parity(self.expr(raw.operand), raw.even, span=raw.span)
+        return self.expr(raw)
+
+    def rel(self, raw: _Rel, main: bool = False) -> A.Node:
+        operands = tuple(self.expr(o) for o in raw.operands)
+        if raw.modulus is not None:
+            modulus = self.expr(raw.modulus)
+            if raw.ops and all(op == "==" for op in raw.ops):
+                return A.Relation(raw.ops, operands, modulus, span=raw.span)
+            last = operands[-1]
+            operands = operands[:-1] + (A.BinOp("mod", last, modulus, span=_join(last, raw.mod_span)),)
+        elif raw.ops and "==" in raw.ops:
+            pass  # `a == b` without modulus: plain congruence sign kept as written
+        if not raw.ops:
+            return operands[0]
+        return A.Relation(raw.ops, operands, None, span=raw.span)
+
+    # -- expressions
+    def expr(self, x: Any) -> A.Node:
+        if isinstance(x, _Name):
+            return self.name(x)
+        if isinstance(x, _Apply):
+            return self.apply(x)
+        if isinstance(x, _Sub):
+            return self.subscript(x)
+        if isinstance(x, _BigSub):
+            return self.bigsub(x)
+        if isinstance(x, _BigCall):
+            return self.bigcall(x)
+        if isinstance(x, _BraceList):
+            raise self.err("a list in braces is only allowed as the iterator of Sum[...] or Product[...]", x)
+        if isinstance(x, _Arg):
+            raise self.err("'=' or '..' is only allowed in the limits of a sum or product", x)
+        if isinstance(x, _DotsMark):
+            raise self.err("'...' must stand between terms of a sum or a product", x)
+        if isinstance(x, _Rel):
+            raise self.err("a relation cannot stand inside an expression", x)
+        if isinstance(x, A.BinOp):
+            if x.op in "+*" and self._has_dots(x):
+                return self.dots(x)
+            return A.BinOp(x.op, self.expr(x.left), self.expr(x.right), implicit=x.implicit, span=x.span)
+        if isinstance(x, A.UnaryOp):
+            return A.UnaryOp(x.op, self.expr(x.operand), span=x.span)
+        if isinstance(x, A.Power):
+            return A.Power(self.expr(x.base), self.expr(x.exponent), span=x.span)
+        if isinstance(x, A.Factorial):
+            return A.Factorial(self.expr(x.operand), x.double, span=x.span)
+        if isinstance(x, A.Call):
+            return A.Call(x.name, tuple(self.expr(a) for a in x.args), written=x.written, span=x.span)
+        if isinstance(x, (A.Integer, A.Decimal, A.Rational)):
+            return x
+        if isinstance(x, tuple):
+            raise self.err("unexpected list", x[0] if x else None)
+        raise AssertionError(f"unhandled raw node {type(x).__name__}")
+
+    @staticmethod
+    def _has_dots(x: A.BinOp) -> bool:
+        cur: Any = x
+        while isinstance(cur, A.BinOp) and cur.op == x.op:
+            if isinstance(cur.right, _DotsMark):
+                return True
+            cur = cur.left
+        return False
+
+    def dots(self, x: A.BinOp) -> A.Node:
+        items: list[Any] = []
+        cur: Any = x
+        while isinstance(cur, A.BinOp) and cur.op == x.op and not (cur is not x and False):
+            items.append(cur.right)
+            cur = cur.left
+        items.append(cur)
+        items.reverse()
+        marks = [i for i, t in enumerate(items) if isinstance(t, _DotsMark)]
+        if len(marks) != 1 or marks[0] == 0 or marks[0] != len(items) - 2:
+            raise self.err("'...' must stand once, between the first terms and the last term", x)
+        first = tuple(self.expr(t) for t in items[:marks[0]])
+        last = self.expr(items[-1])
+        return A.Dots("+" if x.op == "+" else "*", first, last, span=x.span)
+
+    def name(self, x: _Name) -> A.Node:
+        n = x.name
+        if n in self.bound or n in self.lhs_vars:
+            return A.Symbol(n, span=x.span)
+        const = _CONSTANTS.get(n)
+        if const is not None:
+            if n == "i" and (n in self.applied or self._bound_anywhere(n)):
+                return A.Symbol(n, span=x.span)
+            if const == "e" and self._bound_anywhere(n):
+                return A.Symbol(n, span=x.span)
+            return A.Constant(const, written=n, span=x.span)
+        return A.Symbol(n, span=x.span)
+
+    def _bound_anywhere(self, name: str) -> bool:
+        for seg in self.segs:
+            for node in _raw_walk((seg.rel, seg.tails)):
+                if isinstance(node, _Bound) and node.var == name:
+                    return True
+                if isinstance(node, _Arg) and node.kind in ("eq", "range", "ge", "div") \
+                        and isinstance(node.parts[0], _Name) and node.parts[0].name == name:
+                    return True
+        return False
+
+    def apply(self, x: _Apply) -> A.Node:
+        n, args = x.name, x.args
+        if any(isinstance(a, _Arg) for a in args):
+            raise self.err(f"'=' or '..' inside {n}(...)", x)
+        if n in self.sequences:
+            return A.SeqRef(n, tuple(self.expr(a) for a in args), span=x.span)
+        is_var = n in self.bound or n in self.lhs_vars or n in self.standalone
+        if is_var and len(args) == 1:
+            # `n(n+1)`, `x(1+x)`: a variable times a group
+            sym = self.name(_Name(n, (x.span[0], x.span[0] + len(n))))
+            return A.BinOp("*", sym, self.expr(args[0]), implicit=True, span=x.span)
+        spec = lookup(n, len(args))
+        if spec is not None and not is_var:
+            return A.Call(spec.name, tuple(self.expr(a) for a in args), written=n, span=x.span)
+        if spec is None:
+            other = lookup(n, None)
+            if other is not None and len(n) > 2 and n not in self.sequences:
+                raise self.err(f"{n} takes {other.arity_text()}, not {len(args)}", x)
+        return A.SeqRef(n, tuple(self.expr(a) for a in args), span=x.span)
+
+    def subscript(self, x: _Sub) -> A.Node:
+        n = x.name
+        if n not in self.sequences:
+            spec = lookup(n, len(x.indices))
+            if spec is not None and n not in self.standalone and len(n) <= 2 and n in ("F", "L", "C", "H", "B"):
+                return A.Call(spec.name, tuple(self.expr(a) for a in x.indices), written=n + "_", span=x.span)
+        return A.SeqRef(n, tuple(self.expr(a) for a in x.indices), subscript=True, span=x.span)
+
+    # -- sums and products
+    def _make_bigop(self, op: str, var: str | None, body_raw: Any, lower: Any, upper: Any,
+                    divides: Any, span: A.Span, where: Any) -> A.BigOp:
+        if var is None:
+            var = self._guess_var(body_raw, where)
+        self.bound.append(var)
+        try:
+            body = self.expr(body_raw)
+        finally:
+            self.bound.pop()
+        return A.BigOp(op, var, body,
+                       None if lower is None else self.expr(lower),
+                       None if upper is None else self.expr(upper),
+                       None if divides is None else self.expr(divides), span=span)
+
+    def _guess_var(self, body_raw: Any, where: Any) -> str:
+        inside = {n.name for n in _raw_walk(body_raw) if isinstance(n, _Name)}
+        cands = inside - self.lhs_vars - set(self.bound)
+        for pref in _BOUND_PREFERENCE:
+            if pref in cands:
+                return pref
+        if len(cands) == 1:
+            return next(iter(cands))
+        raise self.err("cannot tell the summation variable; write it, as in k=0..n", where)
+
+    def _inf(self, span: A.Span) -> A.Constant:
+        return A.Constant("infinity", written="inf", span=span)
+
+    def bigsub(self, x: _BigSub) -> A.Node:
+        b = x.bound
+        lower = upper = divides = None
+        var = b.var
+        if b.kind == "eq":
+            lower = b.parts[0]
+            if len(b.parts) == 2:
+                upper = b.parts[1]
+            elif x.sup is not None:
+                upper = x.sup
+            else:
+                upper = self._inf(b.span)
+        elif b.kind == "ge":
+            lower, upper = b.parts[0], (x.sup if x.sup is not None else self._inf(b.span))
+        elif b.kind == "gt":
+            low = b.parts[0]
+            lower = A.Integer(low.value + 1, span=low.span) if isinstance(low, A.Integer) \
+                else A.BinOp("+", low, A.Integer(1), span=_sp(low))
+            upper = x.sup if x.sup is not None else self._inf(b.span)
+        elif b.kind == "div":
+            divides = b.parts[0]
+            if x.sup is not None:
+                raise self.err("a divisor sum takes no upper limit", x.sup)
+        elif b.kind in ("chain", "range"):
+            lower, upper = b.parts
+            if x.sup is not None:
+                raise self.err("two upper limits", x.sup)
+        elif b.kind == "var":
+            if x.sup is not None:
+                raise self.err("an upper limit needs a lower one (write k=0)", x.sup)
+        return self._make_bigop(x.op, var, x.body, lower, upper, divides, x.span, x)
+
+    def bigcall(self, x: _BigCall) -> A.Node:
+        args = list(x.args)
+        word = "Sum" if x.op == "sum" else "Product"
+
+        def var_of(a: Any) -> str:
+            if not isinstance(a, _Name):
+                raise self.err(f"the variable of a {word.lower()} must be a name", a)
+            return a.name
+
+        # Sum[body, {k, lo, hi}]
+        if len(args) == 2 and isinstance(args[1], _BraceList):
+            items = args[1].items
+            if len(items) != 3:
+                raise self.err("iterator must be {variable, lower, upper}", args[1])
+            return self._make_bigop(x.op, var_of(items[0]), args[0], items[1], items[2], None, x.span, x)
+        if len(args) == 2:
+            for rng, body in ((args[0], args[1]), (args[1], args[0])):
+                if isinstance(rng, _Arg):
+                    if rng.kind == "range":
+                        return self._make_bigop(x.op, var_of(rng.parts[0]), body, rng.parts[1], rng.parts[2],
+                                                None, x.span, x)
+                    if rng.kind == "range_bare":
+                        return self._make_bigop(x.op, None, body, rng.parts[0], rng.parts[1], None, x.span, x)
+                    if rng.kind == "ge":
+                        return self._make_bigop(x.op, var_of(rng.parts[0]), body, rng.parts[1],
+                                                self._inf(rng.span), None, x.span, x)
+                    if rng.kind == "div":
+                        return self._make_bigop(x.op, var_of(rng.parts[0]), body, None, None, rng.parts[1],
+                                                x.span, x)
+                    if rng.kind == "eq":
+                        return self._make_bigop(x.op, var_of(rng.parts[0]), body, rng.parts[1],
+                                                self._inf(rng.span), None, x.span, x)
+            if isinstance(args[0], _Name) and not isinstance(args[1], _Arg):
+                return self._make_bigop(x.op, args[0].name, args[1], None, None, None, x.span, x)
+        if len(args) == 3:
+            # sum(k=0, n, body)  /  sum(body, k=0, n)
+            if isinstance(args[0], _Arg) and args[0].kind == "eq":
+                return self._make_bigop(x.op, var_of(args[0].parts[0]), args[2], args[0].parts[1], args[1],
+                                        None, x.span, x)
+            if isinstance(args[1], _Arg) and args[1].kind == "eq":
+                return self._make_bigop(x.op, var_of(args[1].parts[0]), args[0], args[1].parts[1], args[2],
+                                        None, x.span, x)
+        if len(args) == 4 and isinstance(args[1], _Name):
+            # sum(body, k, lo, hi)
+            return self._make_bigop(x.op, args[1].name, args[0], args[2], args[3], None, x.span, x)
+        raise self.err(f"cannot read the limits of this {word.lower()}; write {x.op}(k=0..n, body)", x)

@@ -1,0 +1,153 @@
+"""One catalogue entry file: its text, its values, and where each value sits."""
+
+from __future__ import annotations
+
+import re
+from dataclasses import dataclass, field
+from pathlib import Path as FsPath
+
+from normform.errors import PositionedError
+from normform.lint.findings import Edit, Finding, Fix
+from normform.lint.positions import Located, ScanError, locate_json, locate_toml
+
+ENTRY_SUFFIXES = (".toml", ".json")
+NOT_ENTRIES = {"pyproject.toml", "normform.toml", "package.json"}   # configuration, never entries
+_TOML_AT = re.compile(r"\s*\(at line (\d+), column (\d+)\)$")
+
+
+class EntrySyntaxError(PositionedError):
+    """The file is not valid TOML / JSON."""
+
+
+@dataclass
+class Entry:
+    path: str
+    text: str
+    kind: str                     # "toml" | "json"
+    data: dict
+    where: Located
+    cache: dict = field(default_factory=dict)   # per-entry facts shared by rules
+
+    @property
+    def id(self) -> str | None:
+        value = self.data.get("id")
+        return value if isinstance(value, str) else None
+
+    # -- positions ----------------------------------------------------------
+    def finding(self, rule, message: str, path: tuple = (), *, fix: Fix | None = None,
+                span: tuple[int, int] | None = None, key: bool = False) -> Finding:
+        """A finding of ``rule`` at the value (or key) at ``path``, or at ``span``."""
+        if span is None:
+            span = (self.where.key_span(path) if key else self.where.span(path)) or (0, 0)
+        line, col = self.where.line_col(span[0])
+        end_line, end_col = self.where.line_col(span[1])
+        return Finding(rule.slug, rule.severity, message, self.path, line, col, end_line, end_col,
+                       entry_id=self.id, value_path=tuple(path), fix=fix, category=rule.category)
+
+    def string_span(self, path: tuple, start: int, end: int | None = None) -> tuple[int, int]:
+        """Source span of characters ``[start, end)`` of the string at ``path``."""
+        a = self.where.string_offset(path, start)
+        b = self.where.string_offset(path, end) if end is not None and end > start else a + 1
+        return a, max(b, a + 1)
+
+    # -- edits --------------------------------------------------------------
+    def replace_value(self, path: tuple, value) -> Edit:
+        """An edit that writes ``value`` in place of the value at ``path``."""
+        start, end = self.where.values[tuple(path)]
+        if isinstance(value, bool) or not isinstance(value, (str, int)):
+            raise TypeError("only strings and integers are rewritten")
+        if isinstance(value, int):
+            return Edit(start, end, str(value))
+        if self.kind == "json":
+            import json
+
+            return Edit(start, end, json.dumps(value, ensure_ascii=False))
+        old = self.text[start:end]
+        return Edit(start, end, toml_string(value, prefer_literal=old.startswith("'")))
+
+
+def toml_string(value: str, prefer_literal: bool = False) -> str:
+    """``value`` as a TOML string literal, keeping the author's quoting when possible."""
+    controls = any((ord(c) < 32 and c not in "\t\n") or ord(c) == 127 for c in value)
+    if prefer_literal and not controls:
+        if "\n" not in value and "'" not in value:
+            return f"'{value}'"
+        if "\n" in value and "'''" not in value and not value.endswith("'"):
+            return f"'''\n{value}'''"
+    out = []
+    multi = "\n" in value
+    for c in value:
+        if c == "\\":
+            out.append("\\\\")
+        elif c == '"':
+            out.append('\\"')
+        elif c == "\n" and multi:
+            out.append("\n")
+        elif c == "\t":
+            out.append("\\t" if not multi else "\t")
+        elif ord(c) < 32 or ord(c) == 127:
+            out.append({"\n": "\\n", "\r": "\\r", "\b": "\\b", "\f": "\\f"}.get(c, f"\\u{ord(c):04X}"))
+        else:
+            out.append(c)
+    body = "".join(out)
+    return f'"""\n{body}"""' if multi else f'"{body}"'
+
+
+def parse_entry(path: str, text: str) -> Entry:
+    """Parse ``text`` (TOML, or JSON for ``*.json``); raises :class:`EntrySyntaxError`."""
+    kind = "json" if path.lower().endswith(".json") else "toml"
+    if kind == "json":
+        import json
+
+        try:
+            data = json.loads(text)
+        except json.JSONDecodeError as exc:
+            raise EntrySyntaxError(f"not valid JSON: {exc.msg}", line=exc.lineno, column=exc.colno,
+                                   source=text, path=path) from None
+        if not isinstance(data, dict):
+            raise EntrySyntaxError("an entry must be a JSON object", source=text, path=path,
+                                   expected=("{",))
+        locate = locate_json
+    else:
+        import tomllib
+
+        try:
+            data = tomllib.loads(text)
+        except tomllib.TOMLDecodeError as exc:
+            message = str(exc)
+            line = column = 1
+            m = _TOML_AT.search(message)
+            if m:
+                line, column = int(m.group(1)), int(m.group(2))
+                message = message[:m.start()]
+            raise EntrySyntaxError(f"not valid TOML: {message}", line=line, column=column,
+                                   source=text, path=path) from None
+        locate = locate_toml
+    try:
+        where = locate(text)
+    except ScanError:  # never expected on valid input; positions fall back to the file start
+        where = Located(text, kind)
+    return Entry(path, text, kind, data, where)
+
+
+def read_entry(path: str) -> Entry:
+    """Read and parse one file; ``OSError`` / ``UnicodeDecodeError`` propagate to the caller."""
+    raw = FsPath(path).read_bytes()
+    text = raw.decode("utf-8")
+    return parse_entry(path, text)
+
+
+def entry_files(paths: list[str]) -> list[str]:
+    """Entry files named by ``paths`` (directories are searched recursively)."""
+    out: list[str] = []
+    for p in paths:
+        fp = FsPath(p)
+        if fp.is_dir():
+            for child in sorted(fp.rglob("*")):
+                if (child.suffix.lower() in ENTRY_SUFFIXES and child.is_file()
+                        and child.name not in NOT_ENTRIES
+                        and not any(part.startswith(".") for part in child.relative_to(fp).parts)):
+                    out.append(str(child))
+        else:
+            out.append(str(fp))
+    return out

@@ -1,0 +1,130 @@
+"""Rules about ``references``: parsable, complete, valid identifiers, no repeats, house style."""
+
+from __future__ import annotations
+
+from normform.lint import services
+from normform.lint.findings import Fix
+from normform.lint.refs_facts import identity_key, items, parsed, reference_ids
+from normform.lint.registry import rule
+
+
+@rule("reference-unparsed", "references", "warning",
+      "a reference line cannot be parsed with confidence (setting min-confidence)")
+def reference_unparsed(entry, ctx):
+    for item in items(entry):
+        if item.text is None:
+            continue
+        ref = parsed(entry, item)
+        confidence = ref.confidence
+        if confidence is not None and confidence < ctx.settings.min_confidence:
+            yield entry.finding(reference_unparsed.rule,
+                                f"this reference could not be read with confidence ({confidence:.2f}); "
+                                "write authors, title, venue, volume, year and pages in a usual order, "
+                                "or give it as a structured table", item.path)
+
+
+def _missing(ref) -> list[str]:
+    kind = getattr(ref.kind, "value", ref.kind)
+    out = []
+    if kind in ("article", "book", "chapter", "paper", "thesis", "report") and ref.year is None:
+        out.append("year")
+    if kind == "article":
+        if not ref.container_title:
+            out.append("journal")
+        if ref.pages is None or not (ref.pages.first or ref.pages.article):
+            out.append("pages")
+    return out
+
+
+@rule("reference-incomplete", "references", "warning", "an article lacks its year, journal or pages (a work lacks its year)")
+def reference_incomplete(entry, ctx):
+    for item in items(entry):
+        ref = parsed(entry, item)
+        if item.text is not None and (ref.confidence or 0) < ctx.settings.min_confidence:
+            continue   # reference-unparsed says it; its fields are guesses
+        missing = _missing(ref)
+        if missing:
+            kind = getattr(ref.kind, "value", ref.kind)
+            yield entry.finding(reference_incomplete.rule, f"this {kind} reference has no "
+                                f"{', '.join(missing)}; add {'it' if len(missing) == 1 else 'them'}", item.path)
+
+
+def _bad_ident(entry, ctx, rule_obj, schemes: tuple[str, ...], what: str):
+    ids = services.need("normform.ids")
+    for ref_path, ident, (path, start, end) in reference_ids(entry):
+        if ident.scheme not in schemes or ident.valid:
+            continue
+        try:
+            ids.validate(ident.scheme, ident.value)
+            reason = "it is not valid"
+        except ValueError as exc:
+            reason = getattr(exc, "message", str(exc))
+        yield entry.finding(rule_obj, f"this {what} is not valid: {reason}; copy it again from the source",
+                            path, span=entry.string_span(path, start, end))
+
+
+@rule("doi-invalid", "references", "error", "a DOI is not well formed")
+def doi_invalid(entry, ctx):
+    yield from _bad_ident(entry, ctx, doi_invalid.rule, ("doi",), "DOI")
+
+
+@rule("isbn-check-digit", "references", "error", "an ISBN has a wrong check digit or length")
+def isbn_check_digit(entry, ctx):
+    yield from _bad_ident(entry, ctx, isbn_check_digit.rule, ("isbn",), "ISBN")
+
+
+@rule("issn-check-digit", "references", "error", "an ISSN has a wrong check digit or form")
+def issn_check_digit(entry, ctx):
+    yield from _bad_ident(entry, ctx, issn_check_digit.rule, ("issn",), "ISSN")
+
+
+@rule("arxiv-malformed", "references", "error", "an arXiv identifier is malformed")
+def arxiv_malformed(entry, ctx):
+    yield from _bad_ident(entry, ctx, arxiv_malformed.rule, ("arxiv",), "arXiv identifier")
+
+
+@rule("reference-duplicate", "references", "warning", "the entry cites the same work twice")
+def reference_duplicate(entry, ctx):
+    seen: dict[tuple, tuple] = {}
+    for item in items(entry):
+        key = identity_key(parsed(entry, item), item.text)
+        if key in seen:
+            line = entry.where.line_col(entry.where.span(seen[key])[0])[0]
+            yield entry.finding(reference_duplicate.rule, f"this cites the same work as the reference on "
+                                f"line {line}; keep one of them", item.path)
+        else:
+            seen[key] = item.path
+
+
+def _same_record(a, b) -> bool:
+    """True when a restyled line still carries every field of the original record."""
+    def core(r):
+        return ([n.family_full() for n in r.authors], r.title, r.container_title, r.volume, r.issue,
+                r.year, r.pages.range_text() if r.pages else None,
+                sorted((i.scheme, i.value.lower()) for i in r.identifiers), r.publisher)
+    return core(a) == core(b)
+
+
+@rule("reference-house-style", "references", "note", "a reference line differs from the house style", fixable=True)
+def reference_house_style(entry, ctx):
+    style = None
+    for item in items(entry):
+        if item.text is None:
+            continue
+        ref = parsed(entry, item)
+        if (ref.confidence or 0) < ctx.settings.min_confidence:
+            continue
+        style = style or services.house_style()
+        styled = style.format(ref)
+        if not styled or styled == item.text:
+            continue
+        fix = None
+        if (ref.confidence or 0) >= ctx.settings.style_confidence:
+            try:
+                again = services.parse_reference(styled)
+            except ValueError:
+                again = None
+            if again is not None and _same_record(ref, again):
+                fix = Fix("rewrite in house style", (entry.replace_value(item.path, styled),))
+        yield entry.finding(reference_house_style.rule, f"write this reference in house style: {styled}",
+                            item.path, fix=fix)

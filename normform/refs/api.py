@@ -1,0 +1,77 @@
+"""Public API: parse free-form reference lines into :class:`Reference` records.
+
+``parse_reference`` never raises on bad input: empty lines, binary junk and
+100 kB lines all give one record with the raw text kept and a low
+confidence, so line N out always belongs to line N in.
+"""
+
+from __future__ import annotations
+
+import re
+import unicodedata
+from typing import Iterable, Iterator
+
+from normform.model import Provenance, Reference
+from normform.refs.tokens import MAX_TOKENS, tokenize
+
+# Control characters other than tab become spaces; that keeps offsets equal.
+_CONTROL = re.compile(r"[\x00-\x08\x0b-\x1f\x7f-\x9f\ufffd]")
+_PREFIX_LABEL = re.compile(r"\s*(?:\[[^\]\s]{1,12}\]|\d{1,4}[.)]|\(\d{1,4}\))\s+")
+
+
+def _empty(raw: str) -> Reference:
+    return Reference(provenance=Provenance(raw=raw, fields=(), confidence=0.0))
+
+
+def parse_reference(text: str) -> Reference:
+    """One reference line -> a Reference with per-field provenance and confidence."""
+    from normform.refs.assemble import assemble
+    from normform.refs.labeler import label
+
+    if not isinstance(text, str):
+        text = text.decode("utf-8", "replace") if isinstance(text, (bytes, bytearray)) else str(text)
+    raw = text
+    work = text.rstrip("\r\n")
+    work = _CONTROL.sub(" ", work)
+    if not work.strip():
+        return _empty(raw)
+    # an enumeration label ("[12]", "3.") is not part of the reference
+    m = _PREFIX_LABEL.match(work)
+    if m and m.end() < len(work):
+        work = " " * m.end() + work[m.end():]
+    if not unicodedata.is_normalized("NFC", work):
+        # NFC can change lengths; spans then refer to the normalized text
+        work = unicodedata.normalize("NFC", work)
+    tokens = tokenize(work, MAX_TOKENS + 1)
+    truncated = len(tokens) > MAX_TOKENS
+    if truncated:
+        tokens = tokens[:MAX_TOKENS]
+    if not tokens:
+        return _empty(raw)
+    labels, marg, prob = label(tokens, work)
+    ref = assemble(work, tokens, labels, marg, prob, truncated=truncated)
+    if ref.provenance is not None and ref.provenance.raw != raw:
+        ref = ref.replace(provenance=Provenance(raw=raw, fields=ref.provenance.fields,
+                                                confidence=ref.provenance.confidence))
+    if _junk_ratio(work) > 0.3:
+        ref = ref.replace(provenance=Provenance(raw=raw, fields=ref.provenance.fields,
+                                                confidence=min(ref.provenance.confidence or 0, 0.1)))
+    return ref
+
+
+def _junk_ratio(text: str) -> float:
+    """Share of characters that are neither letters, digits, spaces nor
+    common punctuation: high for binary junk."""
+    if not text:
+        return 1.0
+    bad = sum(1 for ch in text[:2000] if not (ch.isalnum() or ch.isspace() or ch in ".,;:()[]{}-–—'\"“”’/&$\\^_*+=?!@#%~`<>|"))
+    return bad / min(len(text), 2000)
+
+
+def parse_references(lines: Iterable[str]) -> Iterator[Reference]:
+    """One Reference per input line, in order (a generator: memory stays flat)."""
+    for line in lines:
+        yield parse_reference(line.rstrip("\r\n") if isinstance(line, str) else line)
+
+
+__all__ = ["parse_reference", "parse_references"]

@@ -1,0 +1,351 @@
+"""Labeled tokens -> a validated :class:`Reference` with provenance.
+
+Runs of equal labels become fields; the sub-language grammars split pages,
+volume/issue clusters and dates; names go through the name-list splitter.
+The validation pass then repairs what a labeler typically gets wrong (a
+"volume" of 1996, an author list that swallowed the title, a reversed page
+range) and lowers the confidence of what it cannot repair.
+"""
+
+from __future__ import annotations
+
+import re
+import unicodedata
+from functools import lru_cache
+
+from normform.model import (Date, FieldInfo, Identifier, Kind, Pages, Provenance, Reference,
+                            Span)
+from normform.refs import lexicon as lx
+from normform.refs.namelist import split_names
+from normform.refs.subgrammars import parse_date, parse_pages, parse_volume
+from normform.refs.tokens import Token
+
+_STRIP = " \t,;:.\"“”„«»'‘’*_()[]{}<>/|-–—"
+_KEEP_DOT_FIELDS = ("container_title", "publisher", "series", "place", "edition")
+_YEAR_RE = re.compile(r"(?<!\d)(?:1[5-9]|20)\d\d(?!\d)")
+_DIGITS = re.compile(r"\d+")
+_MARKUP = re.compile(r"\\(?:emph|textit|textbf|textsl|em|it|bf|sl|textsc|sc|mathrm)\b\s*|[*_]{1,2}")
+_TEX_HINT = re.compile(r"[\\{}~]|\$")
+_SPACES = re.compile(r"\s+")
+_THESIS = re.compile(r"(?i)\b(?:ph\.?\s?d\.?|doctoral|master'?s|habilitation|diplom|thesis|dissertation|tesis)\b")
+_REPORT = re.compile(r"(?i)\b(?:technical report|tech\.? rep|report|preprint|lecture notes|course notes|notes)\b")
+_UNPUB = re.compile(r"(?i)\b(?:to appear|in press|forthcoming|submitted|in preparation|personal communication|private communication|unpublished|manuscript)\b")
+_PROC = re.compile(r"(?i)\b(?:proc\.|proceedings|conference|symposium|workshop|congress|colloquium|meeting)\b")
+_SOFTWARE = re.compile(r"(?i)\b(?:software|package|version \d|computer program|data ?set|github)\b")
+
+
+@lru_cache(maxsize=1)
+def _latex():
+    from pylatexenc.latex2text import LatexNodes2Text
+    return LatexNodes2Text(math_mode="verbatim", strict_latex_spaces=False)
+
+
+def clean_text(text: str) -> str:
+    """TeX to Unicode, markup dropped, NFC, single spaces."""
+    text = _MARKUP.sub("", text)
+    if _TEX_HINT.search(text):
+        try:
+            text = _latex().latex_to_text(text)
+        except Exception:  # pylatexenc is lenient, but never let a field kill the record
+            pass
+    text = unicodedata.normalize("NFC", text)
+    text = _SPACES.sub(" ", text)
+    text = text.replace(",,", ",").replace("..", ".")
+    return text.strip()
+
+
+def _strip_field(field: str, text: str) -> str:
+    keep_dot = field in _KEEP_DOT_FIELDS and text.rstrip().endswith(".")
+    out = text.strip(_STRIP)
+    # keep a closing bracket/quote that is balanced inside the field
+    for o, c in ("()", "[]"):
+        if out.count(o) > out.count(c) and text.rstrip(" .,;:").endswith(c):
+            out += c
+    if keep_dot and out:
+        last = out.split()[-1] if out.split() else ""
+        if len(last) <= 6 or (last + ".").lower() in lx.JOURNAL_WORDS:
+            out += "."
+    if field == "title" and out.endswith("?") is False and text.strip().endswith("?"):
+        out += "?"
+    return out
+
+
+class _Run:
+    __slots__ = ("label", "first", "last", "conf")
+
+    def __init__(self, label: str, first: int, last: int, conf: float):
+        self.label, self.first, self.last, self.conf = label, first, last, conf
+
+
+def _runs(tokens: list[Token], labels: list[str], marg: list[float]) -> list[_Run]:
+    runs: list[_Run] = []
+    for i, lab in enumerate(labels):
+        if runs and runs[-1].label == lab and runs[-1].last == i - 1:
+            r = runs[-1]
+            r.last = i
+            r.conf = min(r.conf, marg[i])
+        else:
+            runs.append(_Run(lab, i, i, marg[i]))
+    # merge runs of one label separated only by "O" punctuation (a quote, a bracket)
+    merged: list[_Run] = []
+    for r in runs:
+        if (len(merged) >= 2 and merged[-1].label == "O" and merged[-2].label == r.label
+                and r.label not in ("O", "authors", "editors")
+                and all(tokens[j].kind in ("punct", "tex") for j in range(merged[-1].first, merged[-1].last + 1))
+                and merged[-1].last - merged[-1].first < 2
+                and not any(tokens[j].text in ".,;" for j in range(merged[-1].first, merged[-1].last + 1))):
+            gap = merged.pop()
+            prev = merged[-1]
+            prev.last = r.last
+            prev.conf = min(prev.conf, r.conf, 0.99)
+            del gap
+        else:
+            merged.append(r)
+    return merged
+
+
+def _pick(runs: list[_Run], label: str, longest: bool = True) -> tuple[_Run | None, list[_Run]]:
+    mine = [r for r in runs if r.label == label]
+    if not mine:
+        return None, []
+    best = max(mine, key=lambda r: r.last - r.first) if longest else mine[0]
+    return best, [r for r in mine if r is not best]
+
+
+def assemble(text: str, tokens: list[Token], labels: list[str], marg: list[float],
+             seq_prob: float, truncated: bool = False) -> Reference:
+    runs = _runs(tokens, labels, marg)
+    infos: list[FieldInfo] = []
+    values: dict[str, object] = {}
+    notes: list[str] = []
+    penalty = 1.0
+
+    def raw(r: _Run) -> str:
+        return text[tokens[r.first].start:tokens[r.last].end]
+
+    def span(r: _Run) -> Span:
+        return Span(tokens[r.first].start, tokens[r.last].end)
+
+    def note_info(name: str, r: _Run, conf: float | None = None) -> None:
+        infos.append(FieldInfo(name, round(r.conf if conf is None else conf, 4), span(r)))
+
+    # --- identifiers -------------------------------------------------------
+    idents: list[Identifier] = []
+    for i, tok in enumerate(tokens):
+        if tok.ident is not None:
+            idents.append(tok.ident)
+            conf = 0.99 if tok.ident.valid else 0.5
+            infos.append(FieldInfo(tok.ident.scheme, conf, Span(tok.start, tok.end)))
+
+    # --- names -------------------------------------------------------------
+    etal = False
+    for field in ("authors", "editors", "translators"):
+        best, rest = _pick(runs, field, longest=False)
+        if best is None:
+            continue
+        # authors are usually one run; a second run glued by "and" belongs to it
+        last = best
+        for r in rest:
+            if r.first > last.last and all(labels[j] == "O" for j in range(last.last + 1, r.first)) \
+                    and r.first - last.last <= 3:
+                last = r
+        chunk = text[tokens[best.first].start:tokens[last.last].end]
+        conf = min(best.conf, last.conf)
+        names, etal_here = split_names(clean_text(chunk))
+        etal = etal or etal_here
+        # also an "et al." right after the run
+        after = text[tokens[last.last].end:tokens[last.last].end + 10].lower()
+        if "et al" in after:
+            etal = True
+        if not names:
+            continue
+        words = chunk.split()
+        lower_words = sum(1 for w in words if w[:1].islower() and w not in lx.PARTICLES
+                          and w.lower() not in ("and", "et", "al.", "eds.", "ed.", "y", "und"))
+        if lower_words >= 3 or len(names) > 40:
+            # an author list full of lower-case words ate the title
+            conf *= 0.5
+            penalty *= 0.6
+        values[field] = names
+        infos.append(FieldInfo(field, round(conf, 4), Span(tokens[best.first].start, tokens[last.last].end)))
+
+    # --- plain text fields ----------------------------------------------------
+    for field in ("title", "container_title", "series", "publisher", "place", "edition", "genre",
+                  "series_number"):
+        best, rest = _pick(runs, field, longest=(field != "place"))
+        if best is None:
+            continue
+        value = _strip_field(field, clean_text(raw(best)))
+        if field == "title":
+            value = value.rstrip(".")
+        if not value:
+            continue
+        values[field] = value
+        conf = best.conf
+        if rest:
+            # a second, separate run of the same field: keep it, but doubt it
+            extra = [_strip_field(field, clean_text(raw(r))) for r in rest]
+            extra = [e for e in extra if e]
+            if extra:
+                if field in ("publisher", "place", "series"):
+                    values[field] = value
+                notes.extend(extra) if field == "title" else None
+                conf *= 0.8
+        note_info(field, best, conf)
+
+    # --- volume / issue ----------------------------------------------------------
+    vrun, _ = _pick(runs, "volume", longest=False)
+    irun, _ = _pick(runs, "issue", longest=False)
+    volume = issue = None
+    if vrun is not None:
+        parsed = parse_volume(clean_text(raw(vrun)))
+        if parsed and (parsed[0] or parsed[1]):
+            volume, issue = parsed
+        else:
+            m = _DIGITS.search(raw(vrun))
+            volume = _strip_field("volume", raw(vrun)) if not m else m.group()
+        conf = vrun.conf
+        if volume and _YEAR_RE.fullmatch(volume) and "date" not in labels:
+            # a "volume" of 1996 is a year
+            labels_date = Date(year=int(volume))
+            values["date"] = labels_date
+            infos.append(FieldInfo("date", round(conf * 0.8, 4), span(vrun)))
+            volume = None
+        elif volume and _YEAR_RE.fullmatch(volume):
+            conf *= 0.6
+        if volume:
+            values["volume"] = volume
+            note_info("volume", vrun, conf)
+    if irun is not None:
+        parsed = parse_volume(clean_text(raw(irun)))
+        iss = None
+        if parsed and (parsed[1] or parsed[0]):
+            iss = parsed[1] or parsed[0]
+        else:
+            iss = _strip_field("issue", clean_text(raw(irun))) or None
+        if iss:
+            issue = iss
+            note_info("issue", irun)
+    if issue:
+        values["issue"] = issue
+
+    # --- pages ------------------------------------------------------------------
+    prun, _ = _pick(runs, "pages")
+    if prun is not None:
+        ptxt = clean_text(raw(prun))
+        pages = parse_pages(ptxt)
+        conf = prun.conf
+        if pages is None:
+            stripped = _strip_field("pages", ptxt)
+            pages = Pages(first=stripped) if stripped else None
+            conf *= 0.6
+        elif pages.first and pages.last and pages.first.isdigit() and pages.last.isdigit() \
+                and int(pages.last) < int(pages.first):
+            conf *= 0.4   # reversed range: suspect
+        if pages is not None:
+            values["pages"] = pages
+            note_info("pages", prun, conf)
+
+    # --- date -------------------------------------------------------------------
+    if "date" not in values:
+        drun, drest = _pick(runs, "date", longest=False)
+        if drun is not None:
+            dtxt = clean_text(raw(drun))
+            date = parse_date(dtxt)
+            conf = drun.conf
+            if date is None:
+                m = _YEAR_RE.search(dtxt)
+                date = Date(year=int(m.group())) if m else Date(literal=_strip_field("date", dtxt) or None)
+                conf *= 0.7
+            if date.year is not None and not 1500 <= date.year <= 2100:
+                conf *= 0.3
+            values["date"] = date
+            note_info("date", drun, conf)
+
+    # --- note ------------------------------------------------------------------------
+    nrun, nrest = _pick(runs, "note", longest=False)
+    for r in ([nrun] + nrest) if nrun is not None else []:
+        t = _strip_field("note", clean_text(raw(r)))
+        if t:
+            notes.append(t)
+            note_info("note", r)
+    if truncated:
+        notes.append("[line cut: too many tokens]")
+        penalty *= 0.2
+
+    # Literal dates written in words: "to appear", "in press"
+    m = _UNPUB.search(text)
+    if "date" not in values and m and m.group().lower() in ("to appear", "in press", "forthcoming", "submitted", "in preparation"):
+        values["date"] = Date(literal=m.group().lower())
+
+    kind = _kind(text, values, idents)
+    rec_conf = _record_confidence(values, infos, seq_prob, penalty, kind, etal)
+    prov = Provenance(raw=text, fields=tuple(infos), confidence=round(rec_conf, 4))
+    extra: tuple[tuple[str, str], ...] = (("et-al", "true"),) if etal else ()
+    return Reference(
+        kind=kind,
+        authors=values.get("authors", ()),
+        editors=values.get("editors", ()),
+        translators=values.get("translators", ()),
+        title=values.get("title"),
+        container_title=values.get("container_title"),
+        series=values.get("series"),
+        series_number=values.get("series_number"),
+        volume=values.get("volume"),
+        issue=values.get("issue"),
+        pages=values.get("pages"),
+        date=values.get("date"),
+        publisher=values.get("publisher"),
+        place=values.get("place"),
+        edition=values.get("edition"),
+        genre=values.get("genre"),
+        identifiers=tuple(idents),
+        note="; ".join(notes) if notes else None,
+        extra=extra,
+        provenance=prov,
+    )
+
+
+def _kind(text: str, v: dict, idents: list[Identifier]) -> Kind:
+    genre = v.get("genre") or ""
+    if _THESIS.search(genre) or (not v.get("container_title") and _THESIS.search(text)):
+        return Kind.THESIS
+    if _UNPUB.search(text) and not v.get("volume"):
+        return Kind.UNPUBLISHED
+    if _SOFTWARE.search(text) and not v.get("container_title"):
+        return Kind.SOFTWARE
+    container = v.get("container_title") or ""
+    if container:
+        if v.get("editors") or re.search(r"(?:^|[.,]\s*)In[: ]", text):
+            return Kind.PAPER if _PROC.search(container) else Kind.CHAPTER
+        if _PROC.search(container) and not v.get("volume"):
+            return Kind.PAPER
+        return Kind.ARTICLE
+    if _REPORT.search(genre) or _REPORT.search(text) and not v.get("publisher"):
+        return Kind.REPORT
+    if v.get("publisher") or v.get("series") or v.get("edition") or any(i.scheme == "isbn" for i in idents):
+        return Kind.BOOK
+    schemes = {i.scheme for i in idents}
+    if "arxiv" in schemes:
+        return Kind.REPORT
+    if "url" in schemes:
+        return Kind.WEBPAGE
+    return Kind.OTHER
+
+
+def _record_confidence(v: dict, infos: list[FieldInfo], seq_prob: float, penalty: float,
+                       kind: Kind, etal: bool) -> float:
+    """Record confidence: the weakest field, the labeling's overall
+    probability, and penalties from validation; a record with neither a
+    title nor authors is never trusted."""
+    if not infos:
+        return 0.0
+    weakest = min(i.confidence for i in infos)
+    conf = min(weakest, seq_prob ** 0.5 if seq_prob > 0 else 0.0) * penalty
+    if not v.get("title"):
+        conf *= 0.5
+    if not v.get("authors") and not v.get("editors"):
+        conf *= 0.7
+    if kind is Kind.OTHER:
+        conf *= 0.8
+    return max(0.0, min(1.0, conf))

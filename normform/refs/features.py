@@ -1,0 +1,167 @@
+"""Token features for the sequence labeler.
+
+Per-token features depend only on the token text and are cached; the
+context part (neighbours, position, bracket/quote state, what came before)
+is cheap string work per position.  Feature extraction is the hot path of
+the whole parser, so everything here is precompiled and allocation-light.
+"""
+
+from __future__ import annotations
+
+import re
+from functools import lru_cache
+
+from normform.refs import lexicon as lx
+from normform.refs.tokens import Token
+
+_YEAR = re.compile(r"(?:1[5-9]|20)\d\d\Z")
+_ROMAN = re.compile(r"[ivxlcdm]+\Z|[IVXLCDM]+\Z")
+_ORD = re.compile(r"\d+(?:st|nd|rd|th)\Z")
+
+
+def _shape(text: str) -> str:
+    out = []
+    prev = ""
+    for ch in text[:12]:
+        if ch.isupper():
+            c = "A"
+        elif ch.islower():
+            c = "a"
+        elif ch.isdigit():
+            c = "9"
+        else:
+            c = ch
+        if c != prev:
+            out.append(c)
+            prev = c
+    return "".join(out)
+
+
+@lru_cache(maxsize=200_000)
+def token_features(text: str, kind: str) -> tuple[str, ...]:
+    low = text.lower()
+    f = ["k=" + kind, "s=" + _shape(text)]
+    if kind in ("word", "initial", "num", "tex"):
+        f.append("w=" + low)
+        if len(low) > 3:
+            f.append("p3=" + low[:3])
+            f.append("x3=" + low[-3:])
+    else:
+        f.append("w=" + (low if len(low) < 4 else kind))
+    if kind == "num":
+        n = len(text)
+        f.append("nd=%d" % min(n, 6))
+        if _YEAR.match(text):
+            f.append("year")
+        if n <= 3:
+            f.append("small")
+    elif kind == "word":
+        if low in lx.GIVEN_NAMES:
+            f.append("given")
+        if low in lx.PARTICLES:
+            f.append("particle")
+        if low in lx.PLACES:
+            f.append("place")
+        if low in lx.MONTHS:
+            f.append("month")
+        if _ROMAN.match(text) and len(text) <= 6:
+            f.append("roman")
+        if _ORD.match(low):
+            f.append("ordinal")
+        if text in lx.SUFFIXES:
+            f.append("suffix")
+    dotted = low + "." if kind == "word" else low
+    if low in lx.JOURNAL_WORDS or dotted in lx.JOURNAL_WORDS:
+        f.append("jw")
+    if low in lx.PUBLISHER_WORDS:
+        f.append("pw")
+    if low in lx.SERIES_WORDS:
+        f.append("sw")
+    if low in lx.GENRE_WORDS or dotted in lx.GENRE_WORDS:
+        f.append("gw")
+    if low in lx.CONNECTORS:
+        f.append("cw")
+    return tuple(f)
+
+
+_OPEN = "([{"
+_CLOSE = ")]}"
+_QUOTES = "\"“”«»„"
+
+
+def sequence_features(tokens: list[Token], text: str) -> list[list[str]]:
+    """Feature lists, one per token (the crfsuite ItemSequence input)."""
+    n = len(tokens)
+    out: list[list[str]] = []
+    static = [token_features(t.text, t.kind) for t in tokens]
+    lows = [t.text.lower() if len(t.text) < 20 else t.kind for t in tokens]
+    depth = 0
+    in_quote = False
+    periods = 0      # sentence-like separators seen so far (". " after a non-initial)
+    commas = 0
+    seen_year = False
+    seen_in = False
+    for i, tok in enumerate(tokens):
+        f = list(static[i])
+        f.append("pos=%d" % (i * 10 // n if n else 0))
+        f.append("per=%d" % min(periods, 5))
+        f.append("com=%d" % min(commas, 6))
+        if i == 0:
+            f.append("BOS")
+        if i == n - 1:
+            f.append("EOS")
+        if depth:
+            f.append("inpar")
+        if in_quote:
+            f.append("inq")
+        if seen_year:
+            f.append("afteryear")
+        if seen_in:
+            f.append("afterin")
+        # whitespace before/after
+        if tok.start > 0 and text[tok.start - 1] == " ":
+            f.append("spb")
+        if tok.end < len(text) and text[tok.end:tok.end + 1] == " ":
+            f.append("spa")
+        if i > 0:
+            f.append("w-1=" + lows[i - 1])
+            f.append("s-1=" + static[i - 1][1])
+            if i > 1:
+                f.append("w-2=" + lows[i - 2])
+        else:
+            f.append("w-1=^")
+        if i + 1 < n:
+            f.append("w+1=" + lows[i + 1])
+            f.append("s+1=" + static[i + 1][1])
+            if i + 2 < n:
+                f.append("w+2=" + lows[i + 2])
+        else:
+            f.append("w+1=$")
+        out.append(f)
+        # update state after the token
+        t = tok.text
+        if tok.kind == "punct":
+            if t in _OPEN:
+                depth += 1
+            elif t in _CLOSE and depth:
+                depth -= 1
+            elif t in _QUOTES:
+                if t == "“":
+                    in_quote = True
+                elif t == "”":
+                    in_quote = False
+                else:
+                    in_quote = not in_quote
+            elif t == "," :
+                commas += 1
+            elif t in ".:" and i > 0 and tokens[i - 1].kind != "initial":
+                periods += 1
+        elif tok.kind == "initial" and i + 1 < n and tokens[i + 1].kind == "word" \
+                and tokens[i + 1].text[0].isupper() and i > 0 and tokens[i - 1].kind == "word" \
+                and len(tokens[i - 1].text) > 3:
+            pass
+        elif tok.kind == "num" and _YEAR.match(t):
+            seen_year = True
+        elif t == "In" or t == "in" and i > 0 and tokens[i - 1].text in ".,":
+            seen_in = True
+    return out

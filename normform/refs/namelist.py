@@ -1,0 +1,147 @@
+"""Split a free-form author (or editor) list into names.
+
+Handles the shapes legacy lists use: ``A. B. Family``, ``Family, A. B.``,
+``Family A B``, full given names, ``and`` / ``&`` / ``;`` / commas between
+names, ``et al.``, hyphenated initials ``J.-P.``, lower-case particles
+(``van der``, ``de la``) and suffixes (``Jr.``, ``III``).  The one real
+ambiguity -- does a comma separate two names or a family name from its
+given names? -- is decided once per list from the shape of the pieces.
+"""
+
+from __future__ import annotations
+
+import re
+from functools import lru_cache
+
+from normform.model import Name
+from normform.refs import lexicon as lx
+
+_SEP = re.compile(r"\s*;\s*|\s*,?\s+(?:and|&|und|et|y|e)\s+|\s*,?\s*&\s*|\s*\band\b\s*")
+_ETAL = re.compile(r"[,;]?\s*(?:et\.?\s*al\.?|and others|y otros|u\.\s?a\.)\s*$", re.I)
+_ROLE = re.compile(
+    r"[,;]?\s*\(?\b(?:eds?\.?|editors?|(?:edited|compiled|translated)\s+by|hrsg\.?|trans\.|translator)\)?[.,]?\s*",
+    re.I)
+# one given-name piece: "A.", "A", "J.-P.", "Ch.", "A.B."
+_INITIALS = re.compile(r"(?:[^\W\d_][a-z]?\.?(?:-[^\W\d_]\.?)?)+\Z")
+_INITIAL_ONLY = re.compile(r"(?:[^\W\d_][a-z]?\.(?:\s?-?[^\W\d_][a-z]?\.)*|[A-Z]{1,3}(?:-[A-Z])?)\Z")
+
+
+def _is_initials(piece: str) -> bool:
+    words = piece.split()
+    return bool(words) and all(_INITIAL_ONLY.match(w) for w in words)
+
+
+def _ends_initial(piece: str) -> bool:
+    words = piece.split()
+    return bool(words) and bool(_INITIAL_ONLY.match(words[-1]))
+
+
+def _clean(text: str) -> str:
+    text = _ROLE.sub(" ", text)
+    return text.strip(" ,;:.") if not text.rstrip().endswith(".") or len(text.strip()) < 3 \
+        else text.strip(" ,;:")
+
+
+@lru_cache(maxsize=100_000)
+def split_names(text: str) -> tuple[tuple[Name, ...], bool]:
+    """Names in ``text`` and whether the list ended with *et al.*"""
+    text = " ".join(text.split())
+    etal = False
+    m = _ETAL.search(text)
+    if m:
+        etal = True
+        text = text[: m.start()]
+    text = _ROLE.sub(" ", text).strip(" ,;:")
+    if not text:
+        return (), etal
+    groups = [g.strip(" ,") for g in _SEP.split(text) if g and g.strip(" ,")]
+    chunks: list[str] = []
+    for g in groups:
+        chunks.extend(c.strip() for c in g.split(",") if c.strip())
+    names: list[Name] = []
+    # Family-first with comma ("Family, A. B., Other, C.")?  Decide from the
+    # first two chunks: a family chunk followed by an initials chunk.
+    inverted = len(chunks) >= 2 and not _is_initials(chunks[0]) and _ends_initial(chunks[1]) \
+        and len(chunks[0].split()) <= 3
+    if not inverted and len(chunks) >= 2 and len(groups) >= 2 and all(g.count(",") == 1 for g in groups):
+        # "Scholze, Peter and Weinstein, Jared": one comma inside every group
+        inverted = all(len(g.split(",")[0].split()) <= 3 for g in groups)
+    i = 0
+    while i < len(chunks):
+        c = chunks[i]
+        if inverted and i + 1 < len(chunks) and (_ends_initial(chunks[i + 1]) or
+                                                 _looks_given(chunks[i + 1], c)):
+            given = chunks[i + 1]
+            suffix = None
+            if i + 2 < len(chunks) and chunks[i + 2].rstrip(".") + "." in lx.SUFFIXES | {"Jr.", "Sr."}:
+                suffix = chunks[i + 2]
+                i += 1
+            names.append(_family_given(c, given, suffix))
+            i += 2
+            continue
+        if c in lx.SUFFIXES and names:
+            last = names[-1]
+            names[-1] = Name(family=last.family, given=last.given, particle=last.particle, suffix=c)
+            i += 1
+            continue
+        names.append(parse_one(c))
+        i += 1
+    return tuple(n for n in names if n.family or n.literal), etal
+
+
+def _looks_given(chunk: str, family_chunk: str) -> bool:
+    # "Scholze, Peter": one or two capitalised words, no particles
+    words = chunk.split()
+    return 1 <= len(words) <= 3 and all(w[:1].isupper() for w in words) and len(family_chunk.split()) <= 3
+
+
+def _family_given(family: str, given: str, suffix: str | None) -> Name:
+    words = family.split()
+    particle = []
+    while len(words) > 1 and words[0] in lx.PARTICLES:
+        particle.append(words.pop(0))
+    # particles written after the given names: "Waerden, B. L. van der"
+    gwords = given.split()
+    tail = []
+    while gwords and gwords[-1] in lx.PARTICLES:
+        tail.insert(0, gwords.pop())
+    particle = tail + particle
+    return Name(family=" ".join(words), given=" ".join(gwords) or None,
+                particle=" ".join(particle) or None, suffix=suffix)
+
+
+def parse_one(text: str) -> Name:
+    """One name without a comma: ``A. B. van der Family Jr.``, ``Family A B``."""
+    words = text.split()
+    if not words:
+        return Name()
+    suffix = None
+    if len(words) > 1 and words[-1] in lx.SUFFIXES:
+        suffix = words.pop()
+    if len(words) == 1:
+        return Name(family=words[0], suffix=suffix)
+    # "Family A B" / "Family A.B.": initials after a long word
+    if not _INITIAL_ONLY.match(words[0]) and all(_INITIAL_ONLY.match(w) for w in words[1:]) \
+            and not any(w.endswith(".") for w in words[1:]) and words[0] not in lx.PARTICLES:
+        return Name(family=words[0], given=" ".join(words[1:]), suffix=suffix)
+    # given-first: family is the last word, particles (lower case) precede it
+    j = len(words) - 1
+    k = j
+    while k > 1 and words[k - 1] in lx.PARTICLES:
+        k -= 1
+    # lower-case words in the middle that are particles
+    first_particle = k
+    for idx in range(1, j):
+        if words[idx] in lx.PARTICLES:
+            first_particle = idx
+            break
+    given = words[:first_particle]
+    end = first_particle
+    while end < j and words[end] in lx.PARTICLES:
+        end += 1
+    particle = words[first_particle:end]
+    family = words[end:]
+    if not given:
+        given, particle = particle[:1], particle[1:]
+    return Name(family=" ".join(family), given=" ".join(given) or None,
+                particle=" ".join(particle) or None, suffix=suffix)

@@ -1,0 +1,213 @@
+"""``normform venues INPUT --to {abbreviated,full}``: one form for every venue name.
+
+Rewrites ``container-title`` of CSL-JSON records (JSON Lines) or ``journal`` of
+BibTeX entries, and reports each mapping applied with its count.  The input is
+never overwritten; records and text the command does not understand pass
+through unchanged.
+"""
+
+from __future__ import annotations
+
+import argparse
+import json
+import sys
+from collections import Counter
+from pathlib import Path
+
+FORMS = ("abbreviated", "full")
+
+
+def configure(parser: argparse.ArgumentParser) -> None:
+    parser.add_argument("input", metavar="INPUT", help="JSON Lines of CSL-JSON records, or a BibTeX file")
+    parser.add_argument("--to", required=True, choices=FORMS, help="write every venue abbreviated (ISO 4) or in full")
+    parser.add_argument("-o", "--output", metavar="OUT", help="output file (default: standard output)")
+    parser.add_argument("--report", metavar="FILE", help="write the mapping report here (.json for JSON) instead of stderr")
+    parser.add_argument("--table", metavar="FILE", help="the collection's own abbreviation table (TSV or JSON); overrides the shipped one")
+    parser.add_argument("--format", choices=("jsonl", "bibtex"), help="input format (default: from the file suffix)")
+
+
+def _format_of(path: str, given: str | None) -> str:
+    if given:
+        return given
+    return "bibtex" if Path(path).suffix.lower() in (".bib", ".bibtex") else "jsonl"
+
+
+def house_table(explicit: str | None, start: Path | None = None):
+    """The collection's own table: ``--table`` wins, then ``[tool.normform.venues] table``."""
+    from normform.venues.table import load_table
+
+    if explicit:
+        return load_table(explicit)
+    try:
+        from normform.config import find_config, load_config
+    except ImportError:
+        return None
+    base = start or Path.cwd()
+    section = (load_config(base) or {}).get("venues") or {}
+    name = section.get("table") if isinstance(section, dict) else None
+    if not name:
+        return None
+    found = find_config(base)
+    root = Path(found).parent if found else base
+    return load_table(root / name)
+
+
+def _bib_decode(value: str) -> str:
+    if "\\" not in value and "{" not in value:
+        return value
+    from pylatexenc.latex2text import LatexNodes2Text
+
+    return LatexNodes2Text().latex_to_text(value)
+
+
+def _bib_encode(value: str, original: str) -> str:
+    if value.isascii() or not original.isascii():
+        return value
+    from pylatexenc.latexencode import unicode_to_latex
+
+    return unicode_to_latex(value, non_ascii_only=True)
+
+
+class Run:
+    """Counts and findings of one rewrite."""
+
+    def __init__(self, style, to: str) -> None:
+        self.style, self.to = style, to
+        self.cache: dict[str, object] = {}
+        self.applied: Counter = Counter()        # (original, result, how) -> count
+        self.left: Counter = Counter()           # (name, how, candidates) -> count
+        self.records = 0
+        self.fields = 0
+        self.errors: list[str] = []
+
+    def rewrite(self, name: str) -> str:
+        self.fields += 1
+        done = self.cache.get(name)
+        if done is None:
+            done = self.cache[name] = self.style.rewrite(name, self.to)
+        if done.changed:
+            self.applied[(done.original, done.result, done.how)] += 1
+        elif done.how in ("ambiguous", "unknown"):
+            self.left[(done.original, done.how, done.candidates)] += 1
+        return done.result
+
+    def report(self) -> dict:
+        return {
+            "records": self.records,
+            "venue_fields": self.fields,
+            "rewritten": sum(self.applied.values()),
+            "mappings": [{"from": a, "to": b, "how": how, "count": n}
+                         for (a, b, how), n in self.applied.most_common()],
+            "left_as_written": [{"name": a, "why": how, "candidates": list(c), "count": n}
+                                for (a, how, c), n in self.left.most_common()],
+            "errors": self.errors,
+        }
+
+    def report_text(self) -> str:
+        r = self.report()
+        amb = sum(x["count"] for x in r["left_as_written"] if x["why"] == "ambiguous")
+        unk = sum(x["count"] for x in r["left_as_written"] if x["why"] == "unknown")
+        lines = [f"venues --to {self.to}: {r['records']} records, {r['venue_fields']} venue fields, "
+                 f"{r['rewritten']} rewritten by {len(r['mappings'])} mappings, "
+                 f"{amb} ambiguous, {unk} unknown"]
+        for m in r["mappings"]:
+            lines.append(f"  {m['count']:>5}  {m['from']}  ->  {m['to']}  [{m['how']}]")
+        for x in r["left_as_written"]:
+            extra = ": " + " | ".join(x["candidates"]) if x["candidates"] else ""
+            lines.append(f"  {x['count']:>5}  {x['name']}  left as written ({x['why']}){extra}")
+        lines += [f"  error: {e}" for e in r["errors"]]
+        return "\n".join(lines) + "\n"
+
+
+def _jsonl(text: str, run: Run, path: str) -> str:
+    records = []
+    for number, line in enumerate(text.splitlines(), start=1):
+        if not line.strip():
+            records.append((line, None))
+            continue
+        try:
+            obj = json.loads(line)
+        except json.JSONDecodeError as exc:
+            run.errors.append(f"{path}:{number}:{exc.colno}: not a JSON object ({exc.msg}); line kept as is")
+            records.append((line, None))
+            continue
+        if not isinstance(obj, dict):
+            run.errors.append(f"{path}:{number}:1: expected a JSON object; line kept as is")
+            records.append((line, None))
+            continue
+        records.append((line, obj))
+    names = [o.get("container-title") for _, o in records if o and isinstance(o.get("container-title"), str)]
+    run.style.learn_collection(names)
+    out = []
+    for line, obj in records:
+        if obj is None:
+            out.append(line)
+            continue
+        run.records += 1
+        venue = obj.get("container-title")
+        if isinstance(venue, str) and venue.strip():
+            new = run.rewrite(venue)
+            if new != venue:
+                obj["container-title"] = new
+                line = json.dumps(obj, ensure_ascii=False)
+        out.append(line)
+    return "\n".join(out) + ("\n" if out else "")
+
+
+def _bibtex(text: str, run: Run, path: str) -> str:
+    from normform.venues.bibfields import fields, replace_values
+
+    found = list(fields(text))
+    run.records = len({f.entry_key for f in found})
+    journals = [f for f in found if f.name == "journal"]
+    decoded = {f.start: _bib_decode(f.text) for f in journals if f.delimited}
+    run.style.learn_collection(decoded.values())
+    changes: dict[int, str] = {}
+    for f in journals:
+        if not f.delimited:
+            run.errors.append(f"{path}:{f.line}: journal of {f.entry_key!r} is a macro or concatenation; not rewritten")
+            continue
+        old = decoded[f.start]
+        new = run.rewrite(old)
+        if new != old:
+            changes[f.start] = _bib_encode(new, f.text)
+    return replace_values(text, changes) if changes else text
+
+
+def run(args: argparse.Namespace) -> int:
+    from normform.cli import UsageError
+    from normform.errors import PositionedError
+    from normform.venues.style import VenueStyle
+
+    src = Path(args.input)
+    if args.output and src.exists() and Path(args.output).resolve() == src.resolve():
+        raise UsageError("refusing to overwrite INPUT; give another -o OUT")
+    try:
+        text = src.read_text("utf-8")
+    except OSError as exc:
+        raise UsageError(f"cannot read {args.input}: {exc.strerror}") from None
+    try:
+        style = VenueStyle(house=house_table(args.table))
+    except PositionedError as exc:
+        print(f"normform venues: {exc}", file=sys.stderr)
+        return 2
+    job = Run(style, args.to)
+    try:
+        out = _bibtex(text, job, str(src)) if _format_of(args.input, args.format) == "bibtex" \
+            else _jsonl(text, job, str(src))
+    except PositionedError as exc:
+        exc.path = exc.path or str(src)
+        print(f"normform venues: {exc.describe()}\n{exc.excerpt()}", file=sys.stderr)
+        return 1
+    if args.output:
+        Path(args.output).write_text(out, "utf-8")
+    else:
+        sys.stdout.write(out)
+    if args.report:
+        rp = Path(args.report)
+        rp.write_text(json.dumps(job.report(), ensure_ascii=False, indent=1) + "\n" if rp.suffix == ".json"
+                      else job.report_text(), "utf-8")
+    else:
+        sys.stderr.write(job.report_text())
+    ambiguous = any(how == "ambiguous" for (_, how, _) in job.left)
+    return 1 if job.errors or ambiguous else 0
