@@ -17,7 +17,8 @@ from __future__ import annotations
 import re
 
 _WORD = re.compile(r"[^\s]+")
-_EDGE = "\"'“”‘’()[].,;:!?"
+_EDGE = "\"'“”‘’.,;:!?"
+_PAIRS = (("(", ")"), ("[", "]"))
 _SMALL = frozenset("a an and as at but by for from in into nor of on or over per the to upon via vs with".split())
 
 
@@ -27,8 +28,23 @@ def _cores(title: str) -> list[tuple[int, int, str, bool]]:
     opens = True
     for m in _WORD.finditer(title):
         token = m.group(0)
-        left = len(token) - len(token.lstrip(_EDGE))
-        right = len(token.rstrip(_EDGE))
+        left, right = 0, len(token)
+        changed = True
+        while changed and right > left:
+            changed = False
+            core = token[left:right]
+            if core[0] in _EDGE:
+                left, changed = left + 1, True
+            elif core[-1] in _EDGE:
+                right, changed = right - 1, True
+            else:
+                for op, cl in _PAIRS:
+                    if core[-1] == cl and core.count(cl) > core.count(op):
+                        right, changed = right - 1, True
+                        break
+                    if core[0] == op and core.count(op) > core.count(cl):
+                        left, changed = left + 1, True
+                        break
         if right > left:
             out.append((m.start() + left, m.start() + right, token[left:right], opens))
         opens = token.endswith((":", ".", "?", "!", "—")) or token in ("—", "-", "–")
@@ -36,11 +52,12 @@ def _cores(title: str) -> list[tuple[int, int, str, bool]]:
 
 
 def _sentence_case(words: list[tuple[int, int, str, bool]]) -> bool:
-    rest = [w for _, _, w, opens in words if not opens and w.lower() not in _SMALL and w[:1].isalpha()]
+    rest = [w for _, _, w, opens in words if not opens and w.lower() not in _SMALL and w[:1].isalpha()
+            and not any(ch.isupper() for ch in w[1:])]
     if not rest:
         return True
     capitalized = sum(1 for w in rest if w[0].isupper())
-    return capitalized * 2 < len(rest)
+    return capitalized * 2 <= len(rest)
 
 
 def auto_intervals(title: str) -> list[tuple[int, int]]:

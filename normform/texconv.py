@@ -14,6 +14,7 @@ from functools import lru_cache
 _CARET = "\ue000"  # private-use stand-in: pylatexenc drops the argument of \^{}
 _NEEDS_TEX = re.compile(r"[\\{}$~%`'\-\u00a0]")
 _SPACES = re.compile(r"[ \t\r\n\u00a0]+")
+_ONLY_BRACES = re.compile(r"[\\$~%`']")  # absent: braces and dashes are all the TeX there is
 
 
 @lru_cache(maxsize=1)
@@ -33,6 +34,10 @@ def to_unicode(tex: str) -> str:
     """Unicode text of a TeX fragment; runs of blanks (and ``~``) become one space."""
     if _NEEDS_TEX.search(tex) is None:
         return _SPACES.sub(" ", tex).strip()
+    if _ONLY_BRACES.search(tex) is None:
+        # Fast path with pylatexenc's result: groups vanish, -- and --- are dashes.
+        text = tex.replace("---", "\u2014").replace("--", "\u2013").replace("{", "").replace("}", "")
+        return _SPACES.sub(" ", text).strip()
     tex = tex.replace("\\^{}", _CARET).replace("\\textasciicircum{}", _CARET)
     text = _reader().latex_to_text(tex).replace(_CARET, "^")
     return _SPACES.sub(" ", text).strip()

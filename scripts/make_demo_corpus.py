@@ -101,12 +101,12 @@ class Maker:
                          [70, 10, 6, 5, 6, 3])[0]
         authors = [self.person() for _ in range(r.choices([1, 2, 3, 4], [45, 35, 15, 5])[0])]
         year = r.randint(1948, 2023)
-        while True:
+        for attempt in range(6):   # prefer fresh titles; big corpora must reuse some
             if kind == "book":
                 title = r.choice(BOOK_TITLES) + ("" if r.random() < .6 else f", Vol. {r.randint(1, 3)}")
             else:
                 title = f"{r.choice(OPENERS)} {r.choice(SUBJECTS)}{r.choice(TAILS)}"
-            if (title, year) not in self.used_titles:
+            if (title, year) not in self.used_titles or attempt == 5:
                 self.used_titles.add((title, year))
                 break
         journal = r.choice(JOURNALS)
@@ -254,26 +254,33 @@ class Maker:
         return line
 
 
-def build(lines: int) -> list[bytes]:
+def build_with_truth(lines: int) -> list[tuple[bytes, int | None]]:
+    """``(line bytes, invented work number or None for junk/blank)`` in file order."""
     rng = random.Random(SEED)
     maker = Maker(rng)
-    out: list[str] = []
+    out: list[tuple[str, int | None]] = []
+    number = 0
     while len(out) < lines * 0.97:
         work = maker.work()
+        number += 1
         copies = rng.choices([1, 2, 3, 4], [70, 18, 8, 4])[0]
-        out.extend(maker.cite(work) for _ in range(copies))
+        out.extend((maker.cite(work), number) for _ in range(copies))
     while len(out) < lines:
-        out.append(rng.choice(JUNK))
+        out.append((rng.choice(JUNK), None))
     rng.shuffle(out)
-    data = [line.encode("utf-8") for line in out]
+    data = [(line.encode("utf-8"), work) for line, work in out]
     # A few lines saved decades ago in Latin-1: invalid UTF-8, must survive.
-    accented = [i for i, line in enumerate(out) if any(c in line for c in "äöüé")]
+    accented = [i for i, (line, _) in enumerate(out) if any(c in line for c in "äöüé")]
     for i in rng.sample(accented, 3):
-        data[i] = out[i].encode("latin-1", errors="replace")
+        data[i] = (out[i][0].encode("latin-1", errors="replace"), out[i][1])
     # and a handful of blank lines between "pages"
     for i in sorted(rng.sample(range(len(data)), 6), reverse=True):
-        data.insert(i, b"")
+        data.insert(i, (b"", None))
     return data
+
+
+def build(lines: int) -> list[bytes]:
+    return [line for line, _ in build_with_truth(lines)]
 
 
 def main() -> int:

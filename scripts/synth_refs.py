@@ -129,23 +129,84 @@ def make_person(r: random.Random) -> dict:
     return p
 
 
+_FIELDS = ("algebraic geometry", "number theory", "commutative algebra", "category theory", "real analysis",
+           "functional analysis", "homotopy theory", "measure theory", "probability theory", "combinatorics",
+           "topology", "differential geometry", "representation theory", "set theory", "model theory",
+           "mathematical logic", "linear algebra", "numerical analysis", "graph theory", "game theory",
+           "dynamical systems", "ergodic theory", "harmonic analysis", "complex analysis", "operator algebras",
+           "algebraic K-theory", "type theory", "theoretical computer science", "quantum information",
+           "statistical mechanics", "abstract algebra", "group theory", "ring theory", "Galois theory",
+           "algebraic topology", "analytic number theory", "enumerative combinatorics", "order theory",
+           "lattice theory", "homological algebra", "sheaf theory", "convex geometry", "potential theory",
+           "partial differential equations", "ordinary differential equations", "stochastic processes",
+           "information theory", "coding theory", "cryptography", "automata theory", "proof theory",
+           "universal algebra", "Lie groups", "Lie algebras", "Banach spaces", "Hilbert spaces",
+           "Riemannian geometry", "symplectic geometry", "knot theory", "mathematical physics", "calculus")
+_NAMES_IN_TITLES = ("Riemann", "Hilbert", "Galois", "Banach", "Hodge", "Kähler", "Noether", "Cauchy", "Gauss",
+                    "Euler", "Lagrange", "Fourier", "Dirichlet", "Ramanujan", "Hecke", "Artin", "Weil", "Grothendieck",
+                    "Kac-Moody", "Borel", "Sylow", "Jordan", "Zorn", "Cantor", "Hausdorff", "Lebesgue", "Sobolev",
+                    "Hardy", "Littlewood", "Pólya", "Szegő", "Erdős", "Turán", "Ramsey", "Mahler", "Waring")
+_EXTRA_NOUNS = ("theory", "spaces", "algebras", "groups", "rings", "modules", "categories", "functors", "sheaves",
+                "schemes", "manifolds", "bundles", "forms", "integrals", "equations", "operators", "numbers",
+                "primes", "sets", "maps", "morphisms", "extensions", "points", "lines", "graphs", "codes",
+                "games", "processes", "measures", "norms", "fields", "valuations", "approximation", "methods",
+                "structures", "properties", "applications", "problems", "questions", "conjectures", "results",
+                "examples", "counterexamples", "foundations", "elements", "principles", "aspects", "topics")
+_VERBS = ("Counting", "Computing", "Classifying", "Constructing", "Bounding", "Characterizing", "Proving",
+          "Understanding", "Estimating")
+_FOREIGN = ("Sur les {x}", "Sur la théorie des {x}", "Leçons sur les {x}", "Über die {x}", "Einführung in die {x}",
+            "Introducción a la {x}", "Teoría de {x}", "Éléments de {x}", "Cours d'{x}", "Vorlesungen über {x}",
+            "Fondamenti di {x}", "Grundzüge der {x}")
+
+
+def _title_case(t: str) -> str:
+    small = {"of", "and", "the", "in", "on", "a", "an", "for", "to", "via", "with", "by", "at"}
+    words = t.split()
+    return " ".join(w if (i and w in small) or w.startswith("$") else w[:1].upper() + w[1:]
+                    for i, w in enumerate(words))
+
+
 def _title(r: random.Random) -> str:
     a, n, o = r.choice(_ADJ), r.choice(_NOUN).replace("-", " "), r.choice(_OBJ)
+    fld = r.choice(_FIELDS)
+    nm = r.choice(_NAMES_IN_TITLES)
+    en = r.choice(_EXTRA_NOUNS)
     forms = (
         f"On the {a} {n} of {o}", f"{a.capitalize()} {n}s for {o}", f"A note on {o}",
         f"{o.capitalize()} and {a} {n}s", f"The {n} of {a} {o}", f"New {n}s for {o}",
         f"{a.capitalize()} {n}s of {o} and their applications", f"Counting {o}",
         f"An {n} related to {o}", f"{r.choice(_MATH)}-{n}s of {o}", f"On {r.choice(_MATH)}-{a} {o}",
         f"{a.capitalize()} aspects of {o}", f"Some remarks on the {n} problem",
-        f"{o.capitalize()}: a survey", f"Introduction to {o}", f"{a.capitalize()} {o}",
+        f"{o.capitalize()}: a survey", f"Introduction to {fld}", f"{a.capitalize()} {o}",
         f"{o.capitalize()} via {a} {n}s", f"Proof of a conjecture on {o}",
-        f"Sur les {o}", f"Über {a}e {o}", f"The {n} of {r.choice(_MATH)}",
+        f"{fld.capitalize()}", f"{a.capitalize()} {fld}", f"{fld.capitalize()} and {en}",
+        f"Lectures on {fld}", f"Elements of {fld}", f"A course in {fld}", f"Principles of {fld}",
+        f"Handbook of {fld}", f"Topics in {fld}", f"Foundations of {fld}", f"Methods of {fld}",
+        f"{nm} {en}", f"On {nm}'s theorem", f"The {nm} {n} for {en}", f"{nm} {en} and {a} {en}",
+        f"{r.choice(_VERBS)} {a} {en}", f"{r.choice(_VERBS)} {o} in {fld}",
+        f"{a.capitalize()} {en} in {fld}", f"{en.capitalize()} of {a} {en}",
+        f"A {a} proof of the {nm} {n}", f"{fld.capitalize()}: an introduction",
+        f"{fld.capitalize()}. An introduction", f"{fld.capitalize()}. Vol. {r.choice(('I', 'II', '2', '3'))}",
+        f"{fld.capitalize()}: Volume {r.randint(1, 3)}, {r.choice(_FIELDS).capitalize()}",
+        f"{a.capitalize()} {en} of {nm} type", f"When is a {n} {a}?", f"Why {o}?",
+        f"{en.capitalize()} with {a} {en}", f"The {a} {en} of a {n}",
+        r.choice(_FOREIGN).format(x=r.choice(_FIELDS)),
+        f"{a.capitalize()} {en} and {r.choice(_ADJ)} {r.choice(_EXTRA_NOUNS)} on {r.choice(_OBJ)}",
     )
     t = r.choice(forms)
-    if r.random() < 0.15:
-        t += ": " + r.choice((f"{a} methods", f"a {a} approach", f"the case of {o}", "part I", "the general case"))
+    if r.random() < 0.2:
+        t += r.choice((": ", ". ", ", ", " -- ")) + r.choice(
+            (f"{a} methods", f"a {a} approach", f"the case of {o}", "part I", "the general case",
+             f"with applications to {r.choice(_FIELDS)}", f"{r.choice(_ADJ)} {r.choice(_EXTRA_NOUNS)}",
+             f"{r.choice(_EXTRA_NOUNS)} and {r.choice(_EXTRA_NOUNS)}", f"{r.choice(_FIELDS)}"))
     if r.random() < 0.05:
         t += r.choice((" I", " II", " III"))
+    if r.random() < 0.06:
+        t += " " + r.choice(("in dimension $3$", "for $n \\geq 2$", "over $\\mathbb{F}_q$", "of rank two",
+                             "in characteristic $p$", "and the 1979 problem"))
+    x = r.random()
+    if x < 0.35:
+        t = _title_case(t)
     return t
 
 

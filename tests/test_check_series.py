@@ -20,43 +20,7 @@ def ints(s: Series) -> list[int]:
     return [int(c) for c in s.coeffs]
 
 
-# NIST DLMF §26.5.1 (Catalan numbers C(n), n = 0..15), from memory of the table
-CATALAN = [1, 1, 2, 5, 14, 42, 132, 429, 1430, 4862, 16796, 58786, 208012, 742900, 2674440, 9694845]
-# NIST DLMF Table 26.7.1 (Bell numbers B(n), n = 0..15), from memory of the table
-BELL = [1, 1, 2, 5, 15, 52, 203, 877, 4140, 21147, 115975, 678570, 4213597, 27644437, 190899322, 1382958545]
-# NIST DLMF Table 26.8.1: Stirling numbers of the first kind s(n, k), rows n = 1..10, k = 1..n
-STIRLING1 = [
-    [1],
-    [-1, 1],
-    [2, -3, 1],
-    [-6, 11, -6, 1],
-    [24, -50, 35, -10, 1],
-    [-120, 274, -225, 85, -15, 1],
-    [720, -1764, 1624, -735, 175, -21, 1],
-    [-5040, 13068, -13132, 6769, -1960, 322, -28, 1],
-    [40320, -109584, 118124, -67284, 22449, -4536, 546, -36, 1],
-    [-362880, 1026576, -1172700, 723680, -269325, 63273, -9450, 870, -45, 1],
-]
-# NIST DLMF Table 26.8.2: Stirling numbers of the second kind S(n, k), rows n = 1..10, k = 1..n
-STIRLING2 = [
-    [1],
-    [1, 1],
-    [1, 3, 1],
-    [1, 7, 6, 1],
-    [1, 15, 25, 10, 1],
-    [1, 31, 90, 65, 15, 1],
-    [1, 63, 301, 350, 140, 21, 1],
-    [1, 127, 966, 1701, 1050, 266, 28, 1],
-    [1, 255, 3025, 7770, 6951, 2646, 462, 36, 1],
-    [1, 511, 9330, 34105, 42525, 22827, 5880, 750, 45, 1],
-]
-# Abramowitz & Stegun Table 24.1 (binomial coefficients), rows n = 0..10 (Pascal's triangle)
-BINOMIAL_ROWS = [
-    [1], [1, 1], [1, 2, 1], [1, 3, 3, 1], [1, 4, 6, 4, 1], [1, 5, 10, 10, 5, 1],
-    [1, 6, 15, 20, 15, 6, 1], [1, 7, 21, 35, 35, 21, 7, 1], [1, 8, 28, 56, 70, 56, 28, 8, 1],
-    [1, 9, 36, 84, 126, 126, 84, 36, 9, 1], [1, 10, 45, 120, 210, 252, 210, 120, 45, 10, 1],
-]
-
+from check_tables import BELL, BINOMIAL_ROWS, CATALAN, FIBONACCI, LUCAS, STIRLING1, STIRLING2
 
 def test_catalan_dlmf_26_5():
     # DLMF 26.5.2: sum C(n) x^n = (1 - sqrt(1 - 4x)) / (2x); dividing by x costs one coefficient
@@ -100,10 +64,8 @@ def test_central_binomials_from_rational_power():
 
 
 def test_fibonacci_lucas_common_knowledge():
-    fib = [0, 1, 1, 2, 3, 5, 8, 13, 21, 34, 55, 89, 144, 233, 377, 610]
-    luc = [2, 1, 3, 4, 7, 11, 18, 29, 47, 76, 123, 199, 322, 521, 843, 1364]
-    assert ints(x / (1 - x - x ** 2)) == fib
-    assert ints((2 - x) / (1 - x - x ** 2)) == luc
+    assert ints(x / (1 - x - x ** 2)) == FIBONACCI
+    assert ints((2 - x) / (1 - x - x ** 2)) == LUCAS
 
 
 def test_partitions_infinite_product():

@@ -4,9 +4,10 @@ Blocking first (cheap, exact keys from :mod:`normform.batch.keys`, read
 from the work database in sorted order so memory stays small), then
 :mod:`rapidfuzz` similarity inside each block:
 
-1. same first-author key and year  -> titles similar;
-2. same title prefix and year      -> titles similar and authors compatible;
-3. same folded text                -> identical lines (even untitled ones).
+1. same first-author key      -> titles similar, years equal or one unknown;
+2. same title prefix          -> the same, and authors compatible;
+3. a shared valid identifier  -> DOI, arXiv, MR or Zbl;
+4. same folded text           -> a line typed twice (when it has some substance).
 
 Matches are merged with union-find; each cluster's canonical record is the
 member with the highest confidence, then most fields, then the first line.
@@ -46,7 +47,7 @@ class UnionFind:
 
 
 def _blocks(db: sqlite3.Connection, columns: str, where: str) -> Iterator[list[tuple]]:
-    cur = db.execute(f"SELECT {columns}, seq, title, author FROM keys WHERE {where} "
+    cur = db.execute(f"SELECT {columns}, seq, title, author, year FROM keys WHERE {where} "
                      f"ORDER BY {columns}, seq")
     width = len(columns.split(","))
     for _, group in itertools.groupby(cur, key=lambda row: row[:width]):
@@ -73,49 +74,61 @@ _ROMAN = frozenset("i ii iii iv v vi vii viii ix x xi xii".split())
 
 
 def similar_titles(a: str, b: str, similarity: float) -> bool:
-    """Fuzzy-equal folded titles whose numbers agree ("Part II" is not "Part III")."""
-    if not fuzz.token_sort_ratio(a, b, score_cutoff=similarity):
+    """Fuzzy-equal folded titles whose numbers agree ("Part II" is not "Part III").
+
+    Plain ratio catches typos inside words; token-sort ratio catches words
+    typed in another order.
+    """
+    if not (fuzz.ratio(a, b, score_cutoff=similarity)
+            or fuzz.token_sort_ratio(a, b, score_cutoff=similarity)):
         return False
     return _numbers(a) == _numbers(b)
 
 
-def _numbers(title: str) -> list[str]:
-    return sorted(t for t in title.split() if t.isdigit() or t in _ROMAN)
-
-
-_ROMAN = frozenset("i ii iii iv v vi vii viii ix x xi xii".split())
-
-
-def similar_titles(a: str, b: str, similarity: float) -> bool:
-    """Fuzzy-equal folded titles whose numbers agree ("Part II" is not "Part III")."""
-    if not fuzz.token_sort_ratio(a, b, score_cutoff=similarity):
-        return False
-    return _numbers(a) == _numbers(b)
+def _years_agree(a, b) -> bool:
+    """Equal, or one is unknown ("to appear" and the published version)."""
+    return a is None or b is None or a == b
 
 
 def find(db: sqlite3.Connection, similarity: float = 90.0) -> list[list[int]]:
     """Clusters of two or more record numbers, each sorted, ordered by first member."""
     uf = UnionFind()
-    for rows in _blocks(db, "author, year", "author != '' AND title != ''"):
-        for (sa, ta, _), (sb, tb, _) in _pairs(rows):
-            if similar_titles(ta, tb, similarity):
+    # 1. same first author: similar titles, compatible years
+    for rows in _blocks(db, "author", "author != '' AND title != ''"):
+        for (sa, ta, _, ya), (sb, tb, _, yb) in _pairs(rows):
+            if _years_agree(ya, yb) and similar_titles(ta, tb, similarity):
                 uf.union(sa, sb)
-    for rows in _blocks(db, "prefix, year", "prefix != ''"):
-        for (sa, ta, aa), (sb, tb, ab) in _pairs(rows):
-            if not similar_titles(ta, tb, similarity):
+    # 2. same title start: similar titles, compatible years, compatible authors
+    for rows in _blocks(db, "prefix", "prefix != ''"):
+        for (sa, ta, aa, ya), (sb, tb, ab, yb) in _pairs(rows):
+            if not (_years_agree(ya, yb) and similar_titles(ta, tb, similarity)):
                 continue
-            # Same title by different people is a different work.
-            if aa and ab and not fuzz.ratio(aa, ab, score_cutoff=70):
-                continue
-            uf.union(sa, sb)
+            authors_ok = not aa or not ab or fuzz.ratio(aa, ab, score_cutoff=70)
+            # a long, near-identical title in the same year outweighs a garbled author
+            long_twin = (ya is not None and ya == yb and len(ta.split()) >= 5
+                         and fuzz.ratio(ta, tb, score_cutoff=97))
+            if authors_ok or long_twin:
+                uf.union(sa, sb)
+    # 3. a shared valid DOI / arXiv / MR / Zbl identifier
+    for rows in _id_blocks(db):
+        for seq in rows[1:]:
+            uf.union(rows[0], seq)
+    # 4. the same line typed twice (after folding)
     for rows in _blocks(db, "textkey", "textkey != ''"):
-        first = rows[0][0]
         for row in rows[1:]:
-            uf.union(first, row[0])
+            uf.union(rows[0][0], row[0])
     groups: dict[int, list[int]] = {}
     for seq in list(uf.parent):
         groups.setdefault(uf.find(seq), []).append(seq)
     return sorted((sorted(g) for g in groups.values() if len(g) > 1), key=lambda g: g[0])
+
+
+def _id_blocks(db: sqlite3.Connection) -> Iterator[list[int]]:
+    cur = db.execute("SELECT ident, seq FROM ids ORDER BY ident, seq")
+    for _, group in itertools.groupby(cur, key=lambda row: row[0]):
+        seqs = [row[1] for row in group]
+        if len(seqs) > 1:
+            yield seqs
 
 
 def canonical(db: sqlite3.Connection, members: list[int]) -> int:

@@ -3,6 +3,7 @@
 from __future__ import annotations
 
 import argparse
+import os
 import sys
 
 
@@ -59,8 +60,8 @@ def run(args: argparse.Namespace, *, toolkit: str | None = None) -> int:
     rate = result.records / result.seconds if result.seconds > 0 else 0.0
     print(f"needs review: {result.needs_review:,}; duplicate clusters: {result.clusters:,}; "
           f"{result.seconds:.1f}s ({rate:,.0f} lines/s){'; resumed' if result.resumed else ''}")
-    print(f"outputs: {args.output}/records.jsonl references.bib needs-review.jsonl clusters.jsonl "
-          f"summary.json report.html")
+    print(f"outputs in {os.path.normpath(args.output)}{os.sep}: records.jsonl references.bib "
+          "needs-review.jsonl clusters.jsonl summary.json report.html")
     if not result.ok:
         print("normform clean: records out do not match references read", file=sys.stderr)
         return 1

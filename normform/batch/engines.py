@@ -40,6 +40,13 @@ def _ordered(submit, chunks: Iterable[Chunk], window: int, result) -> Iterator[t
         yield done, result(future)
 
 
+def _ignore_interrupt() -> None:
+    """Workers leave Ctrl-C to the main process, which checkpoints and stops them."""
+    import signal
+
+    signal.signal(signal.SIGINT, signal.SIG_IGN)
+
+
 def run_local(chunks: Iterable[Chunk], settings: Settings, jobs: int) -> Iterator[tuple[Chunk, list]]:
     if jobs <= 1:
         for chunk in chunks:
@@ -50,7 +57,7 @@ def run_local(chunks: Iterable[Chunk], settings: Settings, jobs: int) -> Iterato
 
     # fork: workers start fast and inherit what is already imported.
     context = multiprocessing.get_context("fork")
-    executor = ProcessPoolExecutor(max_workers=jobs, mp_context=context)
+    executor = ProcessPoolExecutor(max_workers=jobs, mp_context=context, initializer=_ignore_interrupt)
     try:
         yield from _ordered(lambda c: executor.submit(process_chunk, c[0], c[1], settings),
                             chunks, 3 * jobs, lambda f: f.result())

@@ -48,9 +48,16 @@ class Item:
         return None
 
 
+KEEP = 1000   # problems listed one by one; beyond that only counted
+
+
 @dataclass
 class ReadStats:
-    """What the readers saw, for the lines-in == records-out check."""
+    """What the readers saw, for the lines-in == records-out check.
+
+    The lists keep the first ``KEEP`` items (memory stays flat on a
+    pathological input); every one is still flagged in its record.
+    """
 
     lines: int = 0                 # physical lines of text / JSON Lines inputs
     blank: int = 0
@@ -58,6 +65,12 @@ class ReadStats:
     invalid_utf8: list[tuple[str, int, int]] = field(default_factory=list)  # (file, line, byte offset)
     problems: list[str] = field(default_factory=list)
     unreadable: list[str] = field(default_factory=list)
+    problem_count: int = 0
+
+    def note(self, message: str) -> None:
+        self.problem_count += 1
+        if len(self.problems) < KEEP:
+            self.problems.append(message)
 
 
 class InputError(Exception):
@@ -102,7 +115,8 @@ def _decode(raw: bytes, file: str, lineno: int, offset: int, stats: ReadStats) -
         return raw.decode("utf-8"), ()
     except UnicodeDecodeError as exc:
         where = offset + exc.start
-        stats.invalid_utf8.append((file, lineno, where))
+        if len(stats.invalid_utf8) < KEEP:
+            stats.invalid_utf8.append((file, lineno, where))
         return raw.decode("utf-8", errors="replace"), (("invalid_utf8", where),)
 
 
@@ -142,7 +156,7 @@ def read_jsonl(path: Path, stats: ReadStats) -> Iterator[Item]:
             obj = json.loads(text)
         except json.JSONDecodeError as exc:
             msg = f"{name}:{lineno}:{exc.colno}: not JSON ({exc.msg}); kept as a reference line"
-            stats.problems.append(msg)
+            stats.note(msg)
             yield Item("ref", text.strip(), name, lineno,
                        flags=flags + (("bad_json", f"column {exc.colno}: {exc.msg}"),))
             continue
@@ -154,7 +168,7 @@ def read_jsonl(path: Path, stats: ReadStats) -> Iterator[Item]:
             yield from entry_items(obj, name, lineno, flags)
         else:
             msg = f"{name}:{lineno}:1: expected an object with \"text\" or an entry; kept as a reference line"
-            stats.problems.append(msg)
+            stats.note(msg)
             yield Item("ref", text.strip(), name, lineno,
                        flags=flags + (("bad_json", "expected {\"id\", \"text\"} or an entry"),))
 
@@ -217,7 +231,7 @@ def read_entries(path: Path, stats: ReadStats) -> Iterator[Item]:
         loaded = _load_entry_file(path)
     except EntryFileError as exc:
         # The file cannot be read as entries: report where, keep going.
-        stats.problems.append(exc.describe())
+        stats.note(exc.describe())
         stats.unreadable.append(name)
         return
     for entry, line, positions in loaded:

@@ -8,6 +8,7 @@ each of those to a plain ASCII key.
 
 from __future__ import annotations
 
+import hashlib
 import re
 import unicodedata
 
@@ -17,6 +18,8 @@ _STOP = frozenset("a an the of on in and for to with from by la le les der die d
 
 def fold(text: str) -> str:
     """Lower-case ASCII letters and digits separated by single spaces."""
+    if text.isascii():
+        return _NON_ALNUM.sub(" ", text.lower()).strip()
     text = unicodedata.normalize("NFKD", text)
     text = "".join(ch for ch in text if not unicodedata.combining(ch))
     text = text.lower().replace("ß", "ss")
@@ -43,3 +46,27 @@ def author_key(ref) -> str:
     first = people[0]
     name = first.family or first.literal or ""
     return fold(name).replace(" ", "")
+
+
+# Identifiers that name one work (an ISSN names a journal, an ISBN one edition).
+WORK_IDS = ("doi", "arxiv", "mr", "zbl")
+_ARXIV_VERSION = re.compile(r"v\d+$")
+
+
+def identifier_keys(ref) -> list[str]:
+    out = set()
+    for ident in ref.identifiers:
+        if ident.valid and ident.scheme in WORK_IDS and ident.value:
+            value = ident.value.lower()
+            if ident.scheme == "arxiv":
+                value = _ARXIV_VERSION.sub("", value)
+            out.add(f"{ident.scheme}:{value}")
+    return sorted(out)
+
+
+def text_key(text: str, ref) -> str:
+    """Hash of the folded line, for lines with some substance (not "ibid.", "----")."""
+    folded = fold(text)
+    if len(folded) < 20 or not (ref.authors or ref.editors or ref.title):
+        return ""
+    return hashlib.blake2b(folded.encode(), digest_size=8).hexdigest()

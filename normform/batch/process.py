@@ -9,7 +9,6 @@ pickle cheaply.
 
 from __future__ import annotations
 
-import hashlib
 import json
 from dataclasses import dataclass, replace
 
@@ -20,6 +19,9 @@ from normform.batch.toolkit import DEFAULT, load
 # Fields whose presence summary.json and the report chart count.
 FIELDS = ("author", "title", "container", "year", "volume", "issue", "pages",
           "publisher", "place", "edition", "identifier")
+
+
+JUNK_CONFIDENCE = 0.2
 
 
 @dataclass(frozen=True)
@@ -81,9 +83,10 @@ def process_ref(item: Item, seq: int, settings: Settings, kit) -> dict:
     except Exception as exc:  # the parser failing on one line must not stop the batch
         reasons.append(f"parser error: {type(exc).__name__}: {exc}")
         ref = _fallback_ref(item.text)
+    matched = None
     if settings.against and kit.match is not None:
         try:
-            ref, notes = kit.match(ref, settings.against)
+            ref, notes, matched = kit.match(ref, settings.against)
             reasons.extend(notes)
         except Exception as exc:
             reasons.append(f"matcher error: {type(exc).__name__}: {exc}")
@@ -149,20 +152,28 @@ def process_ref(item: Item, seq: int, settings: Settings, kit) -> dict:
     }
     if flags:
         record["flags"] = flags
+    if matched is not None:
+        record["library"] = matched
     line = dumps(record)
+    # Lines the parser calls junk, and bare titles with no author, year or
+    # identifier ("REFS CONT'D ON NEXT PAGE"), take no part in duplicate clustering.
+    clusterable = ((confidence is None or confidence >= JUNK_CONFIDENCE)
+                   and bool(ref.authors or ref.editors or ref.year or ref.identifiers))
     out = {
         "what": "ref", "record": line, "bib": bib,
         "review": dumps({"id": rid, "seq": seq, "origin": record["origin"], "text": item.text,
                          "confidence": confidence, "reasons": reasons, "csl": csl}) if needs_review else None,
-        "key": [keys.author_key(ref), ref.year, keys.title_key(ref.title), keys.title_prefix(ref.title),
+        "key": [keys.author_key(ref) if clusterable else "", ref.year,
+                keys.title_key(ref.title) if clusterable else "",
+                keys.title_prefix(ref.title) if clusterable else "",
                 confidence if confidence is not None else 0.0, len(_present(ref))],
         "stat": {"kind": ref.kind.value, "fields": _present(ref), "confidence": confidence,
                  "ids": [[i.scheme, bool(i.valid)] for i in ref.identifiers],
                  "invalid_utf8": item.flag("invalid_utf8") is not None,
                  "error": any(r.startswith(("parser error", "CSL-JSON export", "BibTeX export")) for r in reasons),
                  "review": needs_review},
-        # Identical lines (after folding) are duplicates even without a title.
-        "textkey": hashlib.blake2b(keys.fold(item.text).encode(), digest_size=8).hexdigest(),
+        "textkey": keys.text_key(item.text, ref) if clusterable else "",
+        "idkeys": keys.identifier_keys(ref),
         "row": None,
     }
     if seq <= settings.report_rows:

@@ -23,7 +23,7 @@ def _asset(name: str) -> str:
     return resources.files("normform.batch").joinpath(name).read_text("utf-8")
 
 
-def histogram_svg(counts: list[int], no_conf: int) -> str:
+def histogram_svg(counts: list[int], no_conf: int, threshold: float = 0.9) -> str:
     width, height, pad = 420, 180, 28
     peak = max(counts + [1])
     bar = (width - 2 * pad) / len(counts)
@@ -36,7 +36,7 @@ def histogram_svg(counts: list[int], no_conf: int) -> str:
         x = pad + i * bar
         y = height - pad - h
         parts.append(f'<rect x="{x + 2:.1f}" y="{y:.1f}" width="{bar - 4:.1f}" height="{h:.1f}" '
-                     f'class="{"low" if i < 9 else "high"}"><title>{i / 10:.1f}–{(i + 1) / 10:.1f}: '
+                     f'class="{"low" if (i + 1) / len(counts) <= threshold + 1e-9 else "high"}"><title>{i / 10:.1f}–{(i + 1) / 10:.1f}: '
                      f'{count}</title></rect>')
         parts.append(f'<text x="{x + bar / 2:.1f}" y="{y - 3:.1f}" class="val">{count}</text>')
         parts.append(f'<text x="{x + bar / 2:.1f}" y="{height - pad + 13}" class="tick">{i / 10:.1f}</text>')
@@ -106,6 +106,7 @@ def _cluster_sections(handle, clusters: Path) -> dict[int, int]:
                 left, right = diff_html(m["text"], m["house"])
                 conf = "–" if m["confidence"] is None else f'{m["confidence"]:.2f}'
                 origin = f'{m["file"]}:{m["line"]}' if m["line"] is not None else m["file"]
+                origin = origin.rsplit("/", 1)[-1]
                 mark = ' class="is-canon"' if m["seq"] == canon["seq"] else ""
                 handle.write(f'<tr{mark}><td class="n"><a href="#r{m["seq"]}">{escape(origin)}</a></td>'
                              f'<td class="orig">{left}</td><td class="clean">{right}</td>'
@@ -128,7 +129,7 @@ def write(path: Path, summary: dict, *, rows: Path, formulas: Path, clusters: Pa
                   f'{summary["threshold"]:g}</p></header><main>'
                   f'<section id="summary" aria-label="Summary"><div class="cards">{_cards(summary)}</div>'
                   '<div class="charts"><figure>'
-                  f'{histogram_svg(summary["confidence_histogram"]["counts"], summary["confidence_histogram"]["no_confidence"])}'
+                  f'{histogram_svg(summary["confidence_histogram"]["counts"], summary["confidence_histogram"]["no_confidence"], summary["threshold"])}'
                   '<figcaption>Confidence histogram</figcaption></figure><figure>'
                   f'{completeness_svg(summary["field_completeness"])}'
                   '<figcaption>Field completeness</figcaption></figure></div></section>')

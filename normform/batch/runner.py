@@ -164,8 +164,9 @@ def _finish(store: Store, paths: list[Path], read: inputs.ReadStats, refs: int, 
     store.close_parts()
     work, outdir = store.work, store.outdir
     db = store.db
-    db.execute("CREATE INDEX IF NOT EXISTS keys_ay ON keys(author, year, seq)")
-    db.execute("CREATE INDEX IF NOT EXISTS keys_py ON keys(prefix, year, seq)")
+    db.execute("CREATE INDEX IF NOT EXISTS keys_a ON keys(author, seq)")
+    db.execute("CREATE INDEX IF NOT EXISTS keys_p ON keys(prefix, seq)")
+    db.execute("CREATE INDEX IF NOT EXISTS ids_i ON ids(ident, seq)")
     db.execute("CREATE INDEX IF NOT EXISTS keys_t ON keys(textkey, seq)")
     groups = clustering.find(db, similarity)
 
@@ -190,6 +191,7 @@ def _finish(store: Store, paths: list[Path], read: inputs.ReadStats, refs: int, 
                                 "canonical": {k: best[k] for k in ("id", "seq", "origin", "text", "house", "csl")},
                                 "members": members}) + "\n")
 
+    store.close_reader()
     lines_in = read.lines
     summary = stats.summary(totals, lines_in=lines_in, blank=read.blank, clusters=len(groups),
                             clustered=clustered, threshold=settings.threshold,
@@ -197,6 +199,7 @@ def _finish(store: Store, paths: list[Path], read: inputs.ReadStats, refs: int, 
     summary["references_read"] = refs
     summary["entry_files"] = read.entry_files
     summary["problems"] = read.problems
+    summary["problem_count"] = read.problem_count
     summary["invalid_utf8"] = [{"file": f, "line": ln, "byte_offset": off} for f, ln, off in read.invalid_utf8]
     summary_text = json.dumps(summary, ensure_ascii=False, sort_keys=True, indent=2) + "\n"
     report_tmp = work / "report.part"

@@ -34,6 +34,7 @@ class Store:
     def __init__(self, outdir: Path, work: Path, db: sqlite3.Connection, state: dict):
         self.outdir, self.work, self.db, self.state = outdir, work, db, state
         self.files = {}
+        self._reader = None
         if state["phase"] != "running":   # killed while moving finished files into place
             return
         for name in PARTS:
@@ -44,6 +45,7 @@ class Store:
             handle.seek(size)
             self.files[name] = handle
         self.db.execute("DELETE FROM keys WHERE seq > ?", (state["records_done"],))
+        self.db.execute("DELETE FROM ids WHERE seq > ?", (state["records_done"],))
         self.db.commit()
 
     # -- opening ------------------------------------------------------------
@@ -83,7 +85,7 @@ class Store:
         from normform.batch import stats
 
         records, bib, review, rows, formulas = (self.files[n] for n in PARTS)
-        key_rows = []
+        key_rows, id_rows = [], []
         for result in results:
             stats.add(totals, result)
             if result["what"] == "formula":
@@ -99,8 +101,10 @@ class Store:
                 rows.write(result["row"].encode("utf-8"))
             author, year, title, prefix, conf, nfields = result["key"]
             self.state["records_done"] += 1
-            key_rows.append((self.state["records_done"], author, year, title, prefix,
+            seq = self.state["records_done"]
+            key_rows.append((seq, author, year, title, prefix,
                              result.get("textkey", ""), conf, nfields, offset, len(data)))
+            id_rows.extend((seq, ident) for ident in result.get("idkeys", ()))
         for handle in self.files.values():
             handle.flush()
         self.state["items_done"] += items
@@ -109,6 +113,7 @@ class Store:
         self.state["seconds"] = seconds
         with self.db:
             self.db.executemany("INSERT INTO keys VALUES (?,?,?,?,?,?,?,?,?,?)", key_rows)
+            self.db.executemany("INSERT INTO ids VALUES (?,?)", id_rows)
             self._save()
 
     def _save(self) -> None:
@@ -125,11 +130,18 @@ class Store:
         self.files = {}
 
     def record_at(self, offset: int, length: int) -> dict:
-        with open(self.part("records"), "rb") as handle:
-            handle.seek(offset)
-            return json.loads(handle.read(length))
+        if self._reader is None:
+            self._reader = open(self.part("records"), "rb")
+        self._reader.seek(offset)
+        return json.loads(self._reader.read(length))
+
+    def close_reader(self) -> None:
+        if self._reader is not None:
+            self._reader.close()
+            self._reader = None
 
     def remove(self) -> None:
+        self.close_reader()
         self.close_parts()
         self.db.close()
         shutil.rmtree(self.work, ignore_errors=True)
@@ -145,6 +157,7 @@ def _connect(path: Path) -> sqlite3.Connection:
     db.execute("CREATE TABLE IF NOT EXISTS keys (seq INTEGER PRIMARY KEY, author TEXT, year INTEGER, "
                "title TEXT, prefix TEXT, textkey TEXT, conf REAL, nfields INTEGER, "
                "offset INTEGER, length INTEGER)")
+    db.execute("CREATE TABLE IF NOT EXISTS ids (seq INTEGER, ident TEXT)")
     return db
 
 

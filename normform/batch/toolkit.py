@@ -24,8 +24,9 @@ class Toolkit:
     bibtex: Callable[[list], str]             # [Reference] -> BibTeX text
     house: Callable[[Any], str]               # Reference -> house-style line
     formula: Callable[[str], tuple[str, str]] # text -> (MathML, canonical ASCII)
-    # Optional enrichment against a curated library: (ref, library) -> (ref, notes)
-    match: Callable[[Any, str], tuple[Any, list[str]]] | None = None
+    # Optional enrichment against a curated library:
+    # (ref, library path) -> (ref, review notes, match summary dict)
+    match: Callable[[Any, str], tuple[Any, list[str], dict]] | None = None
 
 
 def default() -> Toolkit:

@@ -63,8 +63,8 @@ class Verdict:
     def describe(self) -> str:
         """One line of plain words."""
         parts = [self.label]
-        if self.status == "disagrees" and self.index is not None:
-            parts.append(f"at n = {self.index}: listed {self.expected}, formula gives {self.computed}")
+        if self.status == "disagrees" and self.expected is not None:
+            parts.append(f"at n = {self.index}: listed {_short(self.expected)}, formula gives {_short(self.computed)}")
         if self.compared:
             parts.append(f"{self.compared} term{'s' if self.compared != 1 else ''} compared")
         if self.initial_from_terms:
@@ -84,6 +84,13 @@ class Verdict:
 
 
 # ------------------------------------------------------------------ helpers --
+
+def _short(value: Any, digits: int = 40) -> str:
+    text = str(value)
+    if len(text) <= digits:
+        return text
+    return f"{text[:20]}...{text[-10:]} ({len(text)} characters)"
+
 
 def _number(value: Any) -> Number:
     if isinstance(value, bool):
@@ -144,7 +151,8 @@ def check_formula(formula: Any, terms: Sequence[Any] | Mapping[int, Any], first_
     text = formula if isinstance(formula, str) else getattr(formula, "text", "")
     limits = limits or R.Limits()
     try:
-        return _check(formula, terms, first_index, initial, kind, limits, text)
+        with T.budget(limits.seconds):
+            return _check(formula, terms, first_index, initial, kind, limits, text)
     except RecursionError:
         return Verdict("cannot-check", "the formula is nested too deeply to compute", formula=text)
     except (T.CannotCompute, R.RecurrenceError) as exc:
@@ -164,8 +172,7 @@ def _error_text(exc: Exception) -> str:
 def _check(formula: Any, terms: Any, first_index: int, initial: Any, kind: str | None, limits: R.Limits,
            text: str) -> Verdict:
     if isinstance(formula, str):
-        from normform.formula.api import parse_formula
-        formula = parse_formula(formula)
+        formula = T.parse(formula)
     try:
         listed = _listed(terms, first_index)
     except (ValueError, ZeroDivisionError) as exc:
@@ -195,35 +202,56 @@ def _check(formula: Any, terms: Any, first_index: int, initial: Any, kind: str |
 def _check_closed(plan: T.Plan, listed: dict[int, Number], limits: R.Limits) -> Verdict:
     code = T.compile_exact(plan.expr)
     cond = plan.condition
-    deadline = time.monotonic() + limits.seconds
+    kind = "closed-form"
     computed: dict[int, Number] = {}
     skip: set[int] = set()
-    for n in listed:
+    for n, want in listed.items():
         if n in plan.initial:
-            computed[n] = plan.initial[n]
-            continue
-        if cond is not None and not cond({plan.var: n}):
+            value = plan.initial[n]
+        elif cond is not None and not cond({plan.var: n}):
             skip.add(n)
             continue
-        try:
-            value = code({plan.var: n})
-        except ZeroDivisionError:
-            return _stop(listed, computed, skip, f"division by zero at {plan.var} = {n}", "closed-form")
-        except T.CannotCompute as exc:
-            return _stop(listed, computed, skip, exc.reason, "closed-form")
-        if isinstance(value, bool):
-            return Verdict("cannot-check", "the formula is a condition, not a value", kind="closed-form")
-        if T._bits(value) > limits.max_bits:
-            return _stop(listed, computed, skip, f"the term at {plan.var} = {n} has more than "
-                                                 f"{limits.max_bits} bits", "closed-form")
+        else:
+            try:
+                value = code({plan.var: n})
+            except ZeroDivisionError:
+                return _stop(listed, computed, skip, f"division by zero at {plan.var} = {n}", kind)
+            except (T.CannotCompute, R.RecurrenceError) as exc:
+                return _stop(listed, computed, skip, exc.reason, kind)
+            if isinstance(value, bool):
+                return Verdict("cannot-check", "the formula is a condition, not a value", kind=kind)
+            if isinstance(value, T.Inexact):
+                return _inexact(listed, computed, skip, n, want, value, kind)
+            if T._bits(value) > limits.max_bits:
+                return _stop(listed, computed, skip, f"the term at {plan.var} = {n} has more than "
+                                                     f"{limits.max_bits} bits", kind)
         computed[n] = value
-        if time.monotonic() > deadline:
-            return _stop(listed, computed, skip, f"time budget of {limits.seconds:g} s spent", "closed-form")
-    v = _compare(listed, computed, "closed-form", skip)
+        if value != want:  # stop at the first difference: later terms may be costly
+            break
+    v = _compare(listed, computed, kind, skip)
     if skip and v.status != "disagrees":
         from dataclasses import replace
         v = replace(v, reason=f"{len(skip)} listed term(s) outside the formula's range clause were skipped")
     return v
+
+
+def _inexact(listed: dict[int, Number], computed: dict[int, Number], skip: set[int], n: int, want: Number,
+             value: "T.Inexact", kind: str) -> Verdict:
+    """An irrational value: clearly different from the listed term is a disagreement;
+    equal to 25 digits is not a proof, so cannot-check."""
+    try:
+        got = value.value
+        close = got is not None and abs(got - _dec(want)) <= abs(_dec(want)) * D.Decimal("1e-25") + D.Decimal("1e-25")
+    except (ArithmeticError, TypeError):
+        return _stop(listed, computed, skip, f"the value at n = {n} is not exact ({value})", kind)
+    if not close:
+        before = _compare(listed, computed, kind, skip)
+        if before.status == "disagrees":
+            return before
+        return Verdict("disagrees", f"the formula gives the irrational value {value}", index=n, expected=want,
+                       computed=str(value), compared=before.compared + 1, kind=kind)
+    return _stop(listed, computed, skip, f"at n = {n} the formula gives {value}, equal to the listed term "
+                                         "to 25 digits but not exactly computable", kind)
 
 
 def _stop(listed: dict[int, Number], computed: dict[int, Number], skip: set[int], reason: str, kind: str,
@@ -233,7 +261,7 @@ def _stop(listed: dict[int, Number], computed: dict[int, Number], skip: set[int]
     if partial.status == "disagrees":
         return partial
     if partial.compared:
-        return Verdict("cannot-check", f"{reason} (the first {partial.compared} terms agree)",
+        return Verdict("cannot-check", f"{reason}; the terms before that agree",
                        compared=partial.compared, kind=kind, **extra)
     return Verdict("cannot-check", reason, kind=kind, **extra)
 
@@ -384,6 +412,10 @@ class _Approx(A.Visitor):
 
 
 def _dec(value: Any) -> D.Decimal:
+    if isinstance(value, T.Inexact):
+        if value.value is None:
+            raise T.CannotCompute(f"no numeric value for {value}")
+        return value.value
     if isinstance(value, Fraction):
         return D.Decimal(value.numerator) / D.Decimal(value.denominator)
     if isinstance(value, bool):

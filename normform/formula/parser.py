@@ -151,9 +151,6 @@ from lark import Transformer as _LarkTransformer  # noqa: E402  (lark is importe
 class _Build(_LarkTransformer):
     """Grammar callbacks: children are lark Tokens and raw/AST nodes."""
 
-    def __default__(self, data, children, meta):  # pragma: no cover - every rule has a callback
-        raise AssertionError(f"no callback for rule {data}")
-
     # --- statement
     def start(self, ch):
         label = None
@@ -182,6 +179,9 @@ class _Build(_LarkTransformer):
 
     def tail_if(self, ch):
         return ("if", ch[0])
+
+    def tail_with(self, ch):
+        return ("with", ch[0])
 
     def tail_otherwise(self, ch):
         return ("otherwise", None)
@@ -277,7 +277,7 @@ class _Build(_LarkTransformer):
         return _Name(str(ch[0]), _sp(ch[0]))
 
     def apply(self, ch):
-        return _Apply(str(ch[0]), ch[1], _join(*ch))
+        return _Apply(str(ch[0]), ch[1], _join(ch[0], *ch[1]))
 
     def args(self, ch):
         return tuple(ch)
@@ -428,6 +428,8 @@ _TERMINAL_TEXT = {
     "DOTS": "'...'", "SQRT": "'√'", "END": "end of formula", "$END": "end of input", "LABEL": "a label",
     "MODPAREN": "'(mod'", "SUM": "a sum", "BANG": "'!'",
 }
+# keywords that may follow any expression: listing them in "expected" only adds noise
+_QUIET = {"MOD", "FOR", "IF", "WITH", "WHEN", "OTHERWISE", "ELSE", "AND", "IS", "EVEN", "ODD"}
 _OPERAND_STARTS = {"INT", "DEC", "NAME", "LPAR", "LSQB", "LBRACE", "SQRT", "MINUS", "PLUS"}
 
 
@@ -441,7 +443,7 @@ def _humanize(expected: set[str]) -> tuple[str, ...]:
                 out.append(_TERMINAL_TEXT[key])
         return tuple(out)
     names = sorted({_TERMINAL_TEXT.get(e, e.lower().replace("_", " ")) for e in expected
-                    if not e.startswith("__ANON")})
+                    if not e.startswith("__ANON") and e not in _QUIET})
     return tuple(names[:8])
 
 
@@ -611,7 +613,10 @@ class _Resolver:
             if isinstance(node, (_Apply, _Sub)):
                 args = node.args if isinstance(node, _Apply) else node.indices
                 known = lookup(node.name, len(args)) is not None
-                if not known or node.name in rhs_names:
+                # a short known name (F, C, ...) is a sequence only when the left side IS its
+                # term and the right side uses it again: `F(n) = F(n-1) + F(n-2)`; full names
+                # (binomial, gcd) never are: `binomial(n,k) = binomial(n-1,k-1) + ...` is an identity.
+                if not known or (node is lhs and node.name in rhs_names and len(node.name) <= 2):
                     if node.name in self.standalone and isinstance(node, _Apply) and len(args) == 1 and not known:
                         continue  # `n(n+1)/2 = ...`: a product, not a definition
                     self.sequences.add(node.name)
@@ -627,7 +632,11 @@ class _Resolver:
         label = None
         if self.label_token is not None:
             label = "egf" if str(self.label_token).lstrip()[:1] in "Ee" else "ogf"
-        segs = self.segs
+        segs = []
+        for seg in self.segs:  # `X with a(0)=1`: the initial value becomes its own clause
+            keep = tuple(t for t in seg.tails if t[0] != "with")
+            segs.append(_Seg(seg.kind, seg.rel, keep, seg.span))
+            segs.extend(_Seg("with", t[1], (), _sp(t[1])) for t in seg.tails if t[0] == "with")
         first = segs[0]
         if first.kind not in ("seg",):
             raise self.err("a formula must come before its conditions", first)
@@ -767,7 +776,13 @@ class _Resolver:
         if isinstance(x, A.BinOp):
             if x.op in "+*" and self._has_dots(x):
                 return self.dots(x)
-            return A.BinOp(x.op, self.expr(x.left), self.expr(x.right), implicit=x.implicit, span=x.span)
+            left, right = self.expr(x.left), self.expr(x.right)
+            if x.implicit and isinstance(x.right, _Apply) and isinstance(right, A.BinOp) \
+                    and right.implicit and isinstance(right.left, A.Symbol) and right.left.name == x.right.name:
+                # `3n(n+1)` is (3*n)*(n+1), not 3*(n*(n+1)): keep products left-associative
+                left = A.BinOp("*", left, right.left, implicit=True, span=_join(left, right.left))
+                right = right.right
+            return A.BinOp(x.op, left, right, implicit=x.implicit, span=x.span)
         if isinstance(x, A.UnaryOp):
             return A.UnaryOp(x.op, self.expr(x.operand), span=x.span)
         if isinstance(x, A.Power):
@@ -776,7 +791,7 @@ class _Resolver:
             return A.Factorial(self.expr(x.operand), x.double, span=x.span)
         if isinstance(x, A.Call):
             return A.Call(x.name, tuple(self.expr(a) for a in x.args), written=x.written, span=x.span)
-        if isinstance(x, (A.Integer, A.Decimal, A.Rational)):
+        if isinstance(x, (A.Integer, A.Decimal, A.Rational, A.Constant, A.Symbol)):
             return x
         if isinstance(x, tuple):
             raise self.err("unexpected list", x[0] if x else None)

@@ -26,11 +26,15 @@ class SeriesError(ArithmeticError):
     """A series operation that is undefined or leaves the rationals."""
 
 
-def _q(value: Number) -> Fraction:
-    if isinstance(value, Fraction):
+def _q(value: Number) -> Number:
+    """Exact coefficients are kept as ``int`` when integral: int arithmetic is
+    several times faster than ``Fraction``, and most series in practice are integral."""
+    if type(value) is int:
         return value
+    if isinstance(value, Fraction):
+        return value.numerator if value.denominator == 1 else value
     if isinstance(value, int):
-        return Fraction(value)
+        return int(value)
     raise SeriesError(f"not an exact rational: {value!r}")
 
 
@@ -88,7 +92,7 @@ class Series:
     def of(cls, coeffs: Iterable[Number], prec: int | None = None) -> "Series":
         values = [_q(c) for c in coeffs]
         if prec is not None:
-            values = (values + [Fraction(0)] * prec)[:prec]
+            values = (values + [0] * prec)[:prec]
         return cls(tuple(values))
 
     @classmethod
@@ -104,7 +108,7 @@ class Series:
     def monomial(cls, coefficient: Number, power: int, prec: int) -> "Series":
         if power < 0:
             raise SeriesError(f"x^{power} is not a power series (negative power)")
-        values = [Fraction(0)] * prec
+        values: list[Number] = [0] * prec
         if power < prec:
             values[power] = _q(coefficient)
         return cls(tuple(values))
@@ -135,13 +139,13 @@ class Series:
             return self
         return Series(self.coeffs[:max(prec, 0)])
 
-    def egf_terms(self) -> list[Fraction]:
+    def egf_terms(self) -> list[Number]:
         """``n! * [x^n]``: the terms an exponential generating function lists."""
         out, f = [], 1
         for n, c in enumerate(self.coeffs):
             if n:
                 f *= n
-            out.append(c * f)
+            out.append(_q(c * f))
         return out
 
     def max_bits(self) -> int:
@@ -157,7 +161,7 @@ class Series:
         other = self._lift(other)
         n = min(self.prec, other.prec)
         a, b = self.coeffs, other.coeffs
-        return Series(tuple(a[i] + b[i] for i in range(n)))
+        return Series(tuple(_q(a[i] + b[i]) for i in range(n)))
 
     __radd__ = __add__
 
@@ -172,7 +176,9 @@ class Series:
 
     def scale(self, factor: Number) -> "Series":
         factor = _q(factor)
-        return Series(tuple(c * factor for c in self.coeffs))
+        if type(factor) is int:
+            return Series(tuple(c * factor for c in self.coeffs))
+        return Series(tuple(_q(c * factor) for c in self.coeffs))
 
     def __mul__(self, other: "Series | Number") -> "Series":
         if not isinstance(other, Series):
@@ -181,8 +187,7 @@ class Series:
         # a factor that is zero to its precision still bounds the product's
         # precision by the other factor's valuation
         n = min(self.prec + vb, other.prec + va, max(self.prec, other.prec))
-        zero = Fraction(0)
-        out = [zero] * n
+        out: list[Number] = [0] * n
         # loop over non-zero coefficients only: polynomials stay cheap
         nb = [(j, c) for j, c in enumerate(other.coeffs[:n]) if c]
         for i, ai in enumerate(self.coeffs[:n]):
@@ -193,7 +198,7 @@ class Series:
                 if k >= n:
                     break
                 out[k] += ai * bj
-        return Series(tuple(out))
+        return Series(tuple(map(_q, out)))
 
     __rmul__ = __mul__
 
@@ -204,7 +209,7 @@ class Series:
         return Series(self.coeffs[v:])
 
     def shift_up(self, v: int) -> "Series":
-        return Series(tuple([Fraction(0)] * v) + self.coeffs)
+        return Series((0,) * v + self.coeffs)
 
     def inverse(self) -> "Series":
         """``1/self``; the constant term must be non-zero."""
@@ -213,16 +218,16 @@ class Series:
         c0 = self.coeffs[0]
         if c0 == 0:
             raise SeriesError("division by a series with zero constant term")
-        inv0 = 1 / c0
+        inv0 = _q(Fraction(1) / c0)
         nz = [(i, c) for i, c in enumerate(self.coeffs) if i and c]
-        out = [inv0]
+        out: list[Number] = [inv0]
         for k in range(1, self.prec):
-            s = Fraction(0)
+            s: Number = 0
             for i, ai in nz:
                 if i > k:
                     break
                 s += ai * out[k - i]
-            out.append(-s * inv0)
+            out.append(_q(-s * inv0))
         return Series(tuple(out))
 
     def __truediv__(self, other: "Series | Number") -> "Series":
@@ -230,7 +235,7 @@ class Series:
             other = _q(other)
             if other == 0:
                 raise SeriesError("division by zero")
-            return self.scale(1 / other)
+            return self.scale(Fraction(1) / other)
         v = other.valuation()
         if v >= other.prec:
             raise SeriesError("division by zero (the divisor vanishes to the computed order)")
@@ -289,7 +294,7 @@ class Series:
             return inner.shift_up(int(shifted))
         f = self.coeffs
         f0 = f[0]
-        g0 = _rational_power(f0, alpha)
+        g0 = _q(_rational_power(Fraction(f0), alpha))
         # g = f^alpha satisfies f g' = alpha f' g, which gives g_n term by term
         g = [g0]
         for n in range(1, self.prec):
@@ -298,15 +303,15 @@ class Series:
                 fk = f[k]
                 if fk:
                     s += (alpha * k - (n - k)) * fk * g[n - k]
-            g.append(s / (n * f0))
+            g.append(_q(s / (n * f0)))
         return Series(tuple(g))
 
     # -- calculus -----------------------------------------------------
     def derivative(self) -> "Series":
-        return Series(tuple(i * self.coeffs[i] for i in range(1, self.prec)))
+        return Series(tuple(_q(i * self.coeffs[i]) for i in range(1, self.prec)))
 
     def integral(self, constant: Number = 0) -> "Series":
-        return Series((_q(constant),) + tuple(c / (i + 1) for i, c in enumerate(self.coeffs)))
+        return Series((_q(constant),) + tuple(_q(Fraction(c) / (i + 1)) for i, c in enumerate(self.coeffs)))
 
     # -- composition --------------------------------------------------
     def compose(self, inner: "Series") -> "Series":
@@ -341,7 +346,7 @@ def exp(f: Series) -> Series:
         for k in range(1, n + 1):
             if a[k]:
                 s += k * a[k] * g[n - k]
-        g.append(s / n)
+        g.append(_q(s / n))
     return Series(tuple(g[:f.prec]))
 
 
@@ -364,8 +369,8 @@ def _sin_cos(f: Series, hyperbolic: bool) -> tuple[Series, Series]:
             if a[k]:
                 ss += k * a[k] * c[n - k]
                 cs += k * a[k] * s[n - k]
-        s.append(ss / n)
-        c.append(sign * cs / n)
+        s.append(_q(ss / n))
+        c.append(_q(sign * cs / n))
     return Series(tuple(s[:f.prec])), Series(tuple(c[:f.prec]))
 
 

@@ -18,11 +18,14 @@ reason; the checker turns those into ``cannot-check`` verdicts.
 
 from __future__ import annotations
 
+import signal
+import threading
 import time
+from contextlib import contextmanager
 from dataclasses import dataclass, field
 from fractions import Fraction
 from math import factorial as _factorial
-from typing import Any, Callable, Mapping, Sequence
+from typing import Any, Callable, Iterator, Mapping, Sequence
 
 from normform.formula import ast as A
 from normform.formula import recurrence as R
@@ -46,6 +49,42 @@ class CannotCompute(ValueError):
         super().__init__(reason)
 
 
+# ------------------------------------------------------------------ budget ---
+# A per-check time budget.  Loops of the compiled code (sums, products) look
+# at the deadline cooperatively; on the main thread an interval timer also
+# interrupts a long call into a named function (Bell(20000)).
+
+_DEADLINE = float("inf")
+
+
+@contextmanager
+def budget(seconds: float) -> Iterator[None]:
+    """Run the body under a time budget; overrunning raises :class:`~normform.formula.recurrence.LimitExceeded`."""
+    global _DEADLINE
+    saved = _DEADLINE
+    _DEADLINE = min(saved, time.monotonic() + seconds)
+    timer = False
+    if threading.current_thread() is threading.main_thread() and hasattr(signal, "setitimer") \
+            and signal.getsignal(signal.SIGALRM) in (signal.SIG_DFL, None) and saved == float("inf"):
+        def on_alarm(signum: int, frame: Any) -> None:
+            raise R.LimitExceeded(f"time budget of {seconds:g} s spent")
+        signal.signal(signal.SIGALRM, on_alarm)
+        signal.setitimer(signal.ITIMER_REAL, seconds + 0.25)  # cooperative checks usually fire first
+        timer = True
+    try:
+        yield
+    finally:
+        if timer:
+            signal.setitimer(signal.ITIMER_REAL, 0)
+            signal.signal(signal.SIGALRM, signal.SIG_DFL)
+        _DEADLINE = saved
+
+
+def _check_time() -> None:
+    if time.monotonic() > _DEADLINE:
+        raise R.LimitExceeded("time budget spent")
+
+
 # ------------------------------------------------------------------ helpers --
 
 def _norm(value: Any) -> Any:
@@ -57,6 +96,8 @@ def _norm(value: Any) -> Any:
 def _bits(value: Number) -> int:
     if isinstance(value, int):
         return value.bit_length()
+    if isinstance(value, Inexact):
+        return 0
     return max(value.numerator.bit_length(), value.denominator.bit_length())
 
 
@@ -113,49 +154,25 @@ _COMPARE = {
 }
 
 
-def _registry() -> Any:
-    """The formula engine's named-function registry (imported lazily)."""
-    try:
-        from normform.formula import functions
-    except ImportError:  # pragma: no cover - the engine ships it
-        return None
-    return functions
-
-
 def _call_named(name: str, args: list[Any], node: A.Node) -> Any:
-    functions = _registry()
-    fn = None
-    if functions is not None:
-        for getter in ("get", "lookup", "function"):
-            g = getattr(functions, getter, None)
-            if callable(g):
-                try:
-                    fn = g(name)
-                except (KeyError, LookupError, ValueError):
-                    fn = None
-                if fn is not None:
-                    break
-        if fn is None:
-            for table in ("REGISTRY", "FUNCTIONS", "NAMED"):
-                reg = getattr(functions, table, None)
-                if isinstance(reg, Mapping) and name in reg:
-                    fn = reg[name]
-                    break
-        fn = getattr(fn, "exact", fn)  # registry entries may wrap the exact implementation
-        if fn is not None and not callable(fn):
-            fn = getattr(fn, "func", None) or getattr(fn, "fn", None)
+    """A named function of the engine's registry, on exact arguments."""
+    from normform.formula import functions as F
+
+    spec = F.REGISTRY.get(name)
+    fn = spec.exact if spec is not None else None
     if fn is None:
-        raise CannotCompute(f"the function {name} cannot be computed exactly", node)
+        if name == "sqrt" and len(args) == 1:
+            root = F.integer_sqrt_exact(args[0])
+            if root is not None:
+                return _norm(root)
+            raise CannotCompute(f"sqrt({args[0]}) is irrational; exact terms cannot be computed", node)
+        raise CannotCompute(f"{getattr(node, 'written', '') or name}(...) cannot be computed exactly", node)
     try:
         return _norm(fn(*args))
     except (ZeroDivisionError, CannotCompute, R.RecurrenceError):
         raise
     except (ValueError, TypeError, ArithmeticError) as exc:
         raise CannotCompute(f"{name}({', '.join(map(str, args))}): {exc}", node) from None
-    except Exception as exc:  # the engine's own evaluation errors
-        if type(exc).__name__ == "EvaluationError":
-            raise CannotCompute(f"{name}({', '.join(map(str, args))}): {exc}", node) from None
-        raise
 
 
 # ------------------------------------------------------ exact compilation --
@@ -251,7 +268,7 @@ class ExactCompiler(A.Visitor):
     def visit_Call(self, node: A.Call) -> Code:
         args = [self.visit(a) for a in node.args]
         name = node.name
-        if name in ("floor", "ceil", "ceiling", "abs", "sign", "round"):
+        if name in _ROUNDING and len(args) == 1:
             f = _ROUNDING[name]
             a0 = args[0]
             return lambda env: f(a0(env))
@@ -370,7 +387,9 @@ def _fold(env: Env, var: str, values: Any, body: Code, is_sum: bool, node: A.Nod
     saved = env.get(var, _MISSING)
     total: Any = 0 if is_sum else 1
     try:
-        for k in values:
+        for i, k in enumerate(values):
+            if not i & 255:
+                _check_time()
             env[var] = k
             if is_sum:
                 total += body(env)
@@ -387,8 +406,79 @@ def _fold(env: Env, var: str, values: Any, body: Code, is_sum: bool, node: A.Nod
 _MISSING = object()
 
 
+_NATIVE = (A.Integer, A.Rational, A.Decimal, A.Symbol, A.UnaryOp, A.BinOp, A.Power, A.Factorial, A.SeqRef,
+           A.BigOp, A.Relation, A.Parity, A.And, A.Piecewise)
+
+
+def _native(node: A.Node) -> bool:
+    """Can the fast rational compiler take the whole tree?  Irrational constants, real
+    functions and '...' sums go to the engine's evaluator instead (exact surds, floors of
+    irrationals, pattern-matched dots)."""
+    from normform.formula import functions as F
+
+    for sub in node.walk():
+        if isinstance(sub, A.Constant):
+            if sub.name != "infinity":
+                return False
+        elif isinstance(sub, A.Call):
+            spec = F.REGISTRY.get(sub.name)
+            if sub.name not in _ROUNDING and (spec is None or spec.exact is None):
+                return False
+        elif not isinstance(sub, _NATIVE):
+            return False
+    return True
+
+
+class Inexact:
+    """A value the engine's evaluator could only approximate (irrational): ``value`` is a
+    ``decimal.Decimal``, ``text`` the evaluator's spelling."""
+
+    __slots__ = ("value", "text")
+
+    def __init__(self, value: Any, text: str) -> None:
+        self.value, self.text = value, text
+
+    def __str__(self) -> str:
+        return self.text
+
+    def __repr__(self) -> str:
+        return f"Inexact({self.text})"
+
+
+def _delegate(node: A.Node, sequences: frozenset[str]) -> Code:
+    from normform.formula.errors import EvaluationError
+    from normform.formula.evaluate import evaluate
+
+    def run(env: Env) -> Any:
+        values = {k: v for k, v in env.items() if not k.startswith("@")}
+
+        def sequence(name: str, indices: tuple) -> Any:
+            look = env.get("@" + name)
+            if look is None or len(indices) != 1:
+                raise CannotCompute(f"{name}(...) refers to a sequence that this formula does not define", node)
+            return look(indices[0])
+        try:
+            value = evaluate(node, values, sequence=sequence if sequences else None)
+        except EvaluationError as exc:
+            text = str(exc)
+            if "division by zero" in text or "divide by zero" in text:
+                raise ZeroDivisionError(text) from None
+            raise CannotCompute(text, node) from None
+        if isinstance(value, (int, Fraction)) and not isinstance(value, bool):
+            return _norm(value)
+        if isinstance(value, bool):
+            return value
+        exact = getattr(value, "exact", None)
+        return Inexact(getattr(value, "value", None), exact or str(value))
+    return run
+
+
 def compile_exact(node: A.Node, sequences: frozenset[str] = frozenset()) -> Code:
-    return ExactCompiler(sequences).compile(node)
+    """``node`` as a closure ``code(env)``: the fast rational compiler when it can take the
+    whole tree, else the engine's evaluator (which may return an :class:`Inexact`)."""
+    if _native(node):
+        return ExactCompiler(sequences).compile(node)
+    return _delegate(node, sequences)
 
 
 # ---------------------------------------------------------- series reading --
@@ -401,6 +491,7 @@ class SeriesReader(A.Visitor):
         self.var = var
         self.env: Env = {}
         self.deadline = deadline
+        self._with_var: dict[int, bool] = {}
 
     def read(self, node: A.Node) -> S.Series:
         value = self.visit(node)
@@ -410,7 +501,26 @@ class SeriesReader(A.Visitor):
         return compile_exact(node)(dict(self.env))
 
     def _has_var(self, node: A.Node) -> bool:
-        return self.var in A.free_symbols(node) - set(self.env)
+        """Does ``node`` mention the series variable? (one bottom-up pass per tree, then cached)"""
+        known = self._with_var.get(id(node))
+        if known is None:
+            self._mark(node)
+            known = self._with_var[id(node)]
+        return known
+
+    def _mark(self, root: A.Node) -> None:
+        marks, var = self._with_var, self.var
+        stack: list[tuple[A.Node, bool]] = [(root, False)]
+        while stack:
+            node, done = stack.pop()
+            if id(node) in marks:
+                continue
+            kids = list(node.children())
+            if not done and kids:
+                stack.append((node, True))
+                stack.extend((k, False) for k in kids if id(k) not in marks)
+                continue
+            marks[id(node)] = (isinstance(node, A.Symbol) and node.name == var) or any(marks[id(k)] for k in kids)
 
     def generic_visit(self, node: A.Node) -> Any:
         if not self._has_var(node):
@@ -518,7 +628,7 @@ class SeriesReader(A.Visitor):
             raise CannotCompute(str(exc), node) from None
 
     def _tick(self) -> None:
-        if self.deadline is not None and time.monotonic() > self.deadline:
+        if (self.deadline is not None and time.monotonic() > self.deadline) or time.monotonic() > _DEADLINE:
             raise R.LimitExceeded("time budget spent while expanding the generating function")
 
 
@@ -543,10 +653,19 @@ class Plan:
     initial: Mapping[int, Number] = field(default_factory=dict)  # closed forms with stated values
 
 
+def parse(text: str) -> Any:
+    """The engine's ``parse_formula`` (a Formula), or its bare statement parser as a fallback."""
+    try:
+        from normform.formula.api import parse_formula
+    except ImportError:
+        from normform.formula.parser import parse_statement
+        return parse_statement(text)
+    return parse_formula(text)
+
+
 def _statement(formula: Any) -> A.Statement:
     if isinstance(formula, str):
-        from normform.formula.api import parse_formula
-        formula = parse_formula(formula)
+        formula = parse(formula)
     if isinstance(formula, A.Statement):
         return formula
     root = getattr(formula, "root", None)
@@ -604,6 +723,8 @@ def _initial_values(stmt: A.Statement, name: str | None) -> dict[int, Number]:
     out: dict[int, Number] = {}
     for init in stmt.initial:
         value = _norm(compile_exact(init.value)({}))
+        if not isinstance(value, (int, Fraction)) or isinstance(value, bool):
+            raise CannotCompute(f"the initial value {value} is not an exact rational number", init)
         for target in init.targets:
             if not isinstance(target, A.SeqRef) or len(target.indices) != 1:
                 raise CannotCompute("an initial value must name one term such as a(0)", target)
@@ -619,16 +740,33 @@ def _initial_values(stmt: A.Statement, name: str | None) -> dict[int, Number]:
 
 
 def _label(formula: Any, stmt: A.Statement) -> str | None:
+    """A written label (``G.f.:``) or one implied by the left side (``A(x) =``); not a guess."""
     label = stmt.label or getattr(formula, "label", None)
-    if label in ("ogf", "egf"):
-        return label
-    kind = getattr(formula, "kind", None)
-    return kind if kind in ("ogf", "egf") else None
+    return label if label in ("ogf", "egf") else None
+
+
+_PLANS: dict[int, tuple[A.Statement, Any, Any, Plan]] = {}
 
 
 def plan(formula: Any) -> Plan:
-    """Work out what the formula says and how to compute it (no terms computed yet)."""
+    """Work out what the formula says and how to compute it (no terms computed yet).
+
+    Plans of recently seen formula objects are kept (keyed by the tree's
+    identity), so checking one formula against many entries compiles it once.
+    """
     stmt = _statement(formula)
+    label, kind = getattr(formula, "label", None), getattr(formula, "kind", None)
+    hit = _PLANS.get(id(stmt))
+    if hit is not None and hit[0] is stmt and hit[1] == label and hit[2] == kind:
+        return hit[3]
+    result = _plan(formula, stmt)
+    if len(_PLANS) >= 256:
+        _PLANS.clear()
+    _PLANS[id(stmt)] = (stmt, label, kind, result)
+    return result
+
+
+def _plan(formula: Any, stmt: A.Statement) -> Plan:
     op, lhs, rhs = _sides(stmt)
     label = _label(formula, stmt)
     free = A.free_symbols(rhs)
@@ -637,9 +775,11 @@ def plan(formula: Any) -> Plan:
         return Plan("asymptotic", rhs, var=var, lhs=lhs, condition=_conditions(stmt, var))
     if op not in (None, "="):
         raise CannotCompute(f"a relation with '{op}' does not define terms", stmt.body)
-    # generating functions: labelled, or an expression in x alone
+    # generating functions: labelled, or an expression in x alone (then the
+    # engine's guess of the kind, else ordinary; the checker tries both)
     if label or ("x" in free and "n" not in free and not A.seq_refs(rhs)):
-        return Plan(label or "ogf", rhs, var="x", lhs=lhs, gf_label=label)
+        guess = getattr(formula, "kind", None)
+        return Plan(label or (guess if guess in ("ogf", "egf") else "ogf"), rhs, var="x", lhs=lhs, gf_label=label)
     # recurrences: the defined sequence occurs on the right
     if lhs is not None:
         refs = A.seq_refs(lhs)
@@ -692,8 +832,19 @@ def _recurrence(stmt: A.Statement, lhs: A.Node, ref: A.SeqRef, rhs: A.Node, var:
     if isinstance(lhs, A.SeqRef):
         def rule(m: int, lookup: R.Lookup) -> Any:
             return rhs_code({var: m - shift, key: lookup})
+    elif isinstance(lhs, A.BinOp) and lhs.op == "*" and (lhs.left is ref or lhs.right is ref) and \
+            not A.seq_refs(lhs.left if lhs.right is ref else lhs.right):
+        # the usual shape c(n) * a(n+s): divide by the coefficient
+        coef_code = compile_exact(lhs.left if lhs.right is ref else lhs.right)
+
+        def rule(m: int, lookup: R.Lookup) -> Any:
+            n = m - shift
+            c = coef_code({var: n})
+            if c == 0:
+                raise ZeroDivisionError(f"the coefficient of {name}({m}) on the left side is zero at {var} = {n}")
+            return _div(rhs_code({var: n, key: lookup}), c)
     else:
-        # lhs is c(n) * a(n+s) (+ d(n)): solve for the term, with the lhs term set to 0 and 1
+        # lhs is c(n) * a(n+s) (+ d(n)) in another shape: solve for the term, probing it with 0, 1, 2
         lhs_code = compile_exact(lhs, seqs)
 
         def rule(m: int, lookup: R.Lookup) -> Any:
@@ -776,6 +927,9 @@ def closed_form_terms(p: Plan, first_index: int, count: int, limits: R.Limits) -
             raise CannotCompute(f"division by zero at {p.var} = {n}", p.expr) from None
         if isinstance(value, bool):
             raise CannotCompute("the formula is a condition, not a value", p.expr)
+        if isinstance(value, Inexact):
+            raise CannotCompute(f"the value at {p.var} = {n} is irrational ({value}); "
+                                "exact terms cannot be computed", p.expr)
         if _bits(value) > limits.max_bits:
             raise R.LimitExceeded(f"the term at {p.var} = {n} has more than {limits.max_bits} bits")
         if time.monotonic() > deadline:

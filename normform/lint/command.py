@@ -141,6 +141,8 @@ def _lint(args, settings, rules, fail_on: str) -> int:
         report.text(findings, sources, out, color=color, summary=_summary(findings, len(files)))
     for slug, why in ctx.skipped.items():
         print(f"normform lint: rule {slug} skipped: {why}", file=sys.stderr)
+    for slug, why in ctx.failed.items():
+        print(f"normform lint: rule {slug} failed (please report): {why}", file=sys.stderr)
     if io_errors:
         return 2
     return 1 if any(RANK[f.severity] >= RANK[fail_on] for f in findings) else 0

@@ -15,7 +15,8 @@ from normform.lint.settings import LintSettings
 class Context:
     settings: LintSettings
     known_ids: set[str] = field(default_factory=set)   # ids of entries outside this run
-    skipped: dict[str, str] = field(default_factory=dict)   # slug -> why
+    skipped: dict[str, str] = field(default_factory=dict)   # slug -> why (a service is missing)
+    failed: dict[str, str] = field(default_factory=dict)    # slug -> the error (a rule crashed)
 
 
 def _apply_overrides(finding: Finding, settings: LintSettings) -> Finding:
@@ -23,6 +24,16 @@ def _apply_overrides(finding: Finding, settings: LintSettings) -> Finding:
     if override:
         finding.severity = override
     return finding
+
+
+def _run(rule: Rule, subject, ctx: Context, findings: list[Finding]) -> None:
+    try:
+        findings.extend(rule.check(subject, ctx))
+    except (Unavailable, ImportError) as exc:
+        ctx.skipped[rule.slug] = str(exc)
+    except Exception as exc:  # noqa: BLE001 - one broken rule must not stop a batch
+        where = getattr(subject, "path", "the catalogue")
+        ctx.failed.setdefault(rule.slug, f"{where}: {type(exc).__name__}: {exc}")
 
 
 def lint(entries: list[Entry], rules: list[Rule], ctx: Context) -> list[Finding]:
@@ -33,15 +44,9 @@ def lint(entries: list[Entry], rules: list[Rule], ctx: Context) -> list[Finding]
         for r in per_entry:
             if r.slug in ctx.skipped:
                 continue
-            try:
-                findings.extend(r.check(entry, ctx))
-            except Unavailable as exc:
-                ctx.skipped[r.slug] = str(exc)
+            _run(r, entry, ctx, findings)
     for r in catalogue:
-        try:
-            findings.extend(r.check(entries, ctx))
-        except Unavailable as exc:
-            ctx.skipped[r.slug] = str(exc)
+        _run(r, entries, ctx, findings)
     for f in findings:
         _apply_overrides(f, ctx.settings)
     findings.sort(key=Finding.sort_key)

@@ -43,8 +43,11 @@ def reference_ids(entry) -> list[tuple[tuple, object, tuple]]:
         ids = services.need("normform.ids")
         for item in refs:
             if item.text is not None:
-                for ident, span in ids.find_all(item.text):
+                found = ids.find_all(item.text)
+                for ident, span in found:
                     cached.append((item.path, ident, (item.path, span.start, span.end)))
+                for ident, start, end in _loose(ids, item.text, found):
+                    cached.append((item.path, ident, (item.path, start, end)))
             else:
                 for scheme in ID_FIELDS:
                     raw = item.table.get(scheme)
@@ -53,6 +56,25 @@ def reference_ids(entry) -> list[tuple[tuple, object, tuple]]:
                         cached.append((item.path, ids.make(scheme, raw), (path, 0, len(raw))))
     entry.cache["ref_ids"] = cached
     return cached
+
+
+# A keyword followed by something that is not a well-formed identifier: the
+# strict finder skips these, but a contributor meant an identifier there.
+_LOOSE = {
+    "doi": re.compile(r"(?<![\w])doi\s*:\s*(\S+?)[.,;]?(?=\s|$)", re.I),
+    "arxiv": re.compile(r"(?<![\w])arxiv\s*:\s*(\S+?)[.,;]?(?=\s|$)", re.I),
+}
+
+
+def _loose(ids, text: str, found) -> list:
+    out = []
+    for scheme, pattern in _LOOSE.items():
+        for m in pattern.finditer(text):
+            start, end = m.span(1)
+            if any(s.start < end and start < s.end for _, s in found):
+                continue
+            out.append((ids.make(scheme, m.group(1)), start, end))
+    return out
 
 
 def _name_from_text(text: str):

@@ -85,6 +85,13 @@ def _from_project_config(load_config, start: Path) -> tuple[dict, str | None]:
     config = load_config(start)
     source = getattr(config, "source", None) or getattr(config, "path", None)
     if isinstance(config, dict):
+        try:
+            from normform.config import find_config
+
+            found = find_config(start)
+            source = str(found) if found else None
+        except ImportError:
+            pass
         return config, source
     for attr in ("data", "table", "raw"):
         value = getattr(config, attr, None)

@@ -52,6 +52,12 @@ def type_name(value) -> str:
     return type(value).__name__   # TOML dates and times
 
 
+def _a(name: str) -> str:
+    if name == "object":
+        return "a table"
+    return f"an {name}" if name[0] in "aeiou" else f"a {name}"
+
+
 def _matches(node: dict, value) -> bool:
     return not any(True for _ in check(value, node, ()))
 
@@ -66,13 +72,12 @@ def check(value, node: dict | None = None, path: tuple = ()) -> Iterator[Problem
         if same_type:   # report inside the branch of the value's own type
             yield from check(value, same_type[0], path)
             return
-        wanted = " or ".join("a table" if b["type"] == "object" else f"a {b['type']}" for b in branches)
-        yield Problem("type", path, f"expected {wanted}, found a {type_name(value)}")
+        wanted = " or ".join(_a(b["type"]) for b in branches)
+        yield Problem("type", path, f"expected {wanted}, found {_a(type_name(value))}")
         return
     wanted = node.get("type")
     if wanted and not _TYPES[wanted](value):
-        yield Problem("type", path, f"expected {'a table' if wanted == 'object' else 'a ' + wanted}, "
-                                    f"found a {type_name(value)}")
+        yield Problem("type", path, f"expected {_a(wanted)}, found {_a(type_name(value))}")
         return
     if "enum" in node and value not in node["enum"]:
         yield Problem("enum", path, f"{value!r} is not one of: {', '.join(node['enum'])}")

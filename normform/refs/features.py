@@ -89,6 +89,48 @@ _CLOSE = ")]}"
 _QUOTES = "\"“”«»„"
 
 
+_SEGLEN_BUCKET = (0, 1, 2, 3, 4, 4, 5, 5, 5, 6)
+_LOW_OK = frozenset(("and", "et", "al", "van", "der", "den", "de", "la", "le", "du", "des", "di", "da", "von",
+                     "dos", "del", "ter", "ten", "zu", "y", "und"))
+
+
+def _segments(tokens: list[Token]) -> tuple[list[int], list[bool], list[int]]:
+    """Per token: length bucket of its segment (words between , ; : or a
+    sentence period), whether the segment holds a lower-case word (names
+    almost never do, titles almost always), and the segment's index."""
+    n = len(tokens)
+    seg_len = [0] * n
+    seg_low = [False] * n
+    seg_idx = [0] * n
+    start = 0
+    idx = 0
+    words = 0
+    low = False
+    for i in range(n + 1):
+        boundary = i == n
+        if not boundary:
+            tok = tokens[i]
+            k = tok.kind
+            if k == "punct" and (tok.text in ",;:()" or tok.text == "." and i > 0 and tokens[i - 1].kind != "initial"):
+                boundary = True
+            elif k in ("word", "num", "initial"):
+                words += 1
+                if k == "word" and tok.text[0].islower() and tok.text not in _LOW_OK:
+                    low = True
+        if boundary:
+            b = _SEGLEN_BUCKET[words] if words < 10 else 7
+            for j in range(start, i + 1 if i < n else n):
+                seg_len[j] = b
+                seg_low[j] = low
+                seg_idx[j] = idx if idx < 8 else 8
+            start = i + 1
+            if words:
+                idx += 1
+            words = 0
+            low = False
+    return seg_len, seg_low, seg_idx
+
+
 def sequence_features(tokens: list[Token], text: str) -> list[list[str]]:
     """Feature lists, one per token (the crfsuite ItemSequence input)."""
     n = len(tokens)
@@ -101,9 +143,14 @@ def sequence_features(tokens: list[Token], text: str) -> list[list[str]]:
     commas = 0
     seen_year = False
     seen_in = False
+    seg_len, seg_low, seg_idx = _segments(tokens)
     for i, tok in enumerate(tokens):
         f = list(static[i])
         f.append("pos=%d" % (i * 10 // n if n else 0))
+        f.append("sl=%d" % seg_len[i])
+        f.append("si=%d" % seg_idx[i])
+        if seg_low[i]:
+            f.append("slow")
         f.append("per=%d" % min(periods, 5))
         f.append("com=%d" % min(commas, 6))
         if i == 0:
@@ -156,10 +203,6 @@ def sequence_features(tokens: list[Token], text: str) -> list[list[str]]:
                 commas += 1
             elif t in ".:" and i > 0 and tokens[i - 1].kind != "initial":
                 periods += 1
-        elif tok.kind == "initial" and i + 1 < n and tokens[i + 1].kind == "word" \
-                and tokens[i + 1].text[0].isupper() and i > 0 and tokens[i - 1].kind == "word" \
-                and len(tokens[i - 1].text) > 3:
-            pass
         elif tok.kind == "num" and _YEAR.match(t):
             seen_year = True
         elif t == "In" or t == "in" and i > 0 and tokens[i - 1].text in ".,":

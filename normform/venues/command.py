@@ -79,6 +79,7 @@ class Run:
         self.records = 0
         self.fields = 0
         self.errors: list[str] = []
+        self.notes: list[str] = []
 
     def rewrite(self, name: str) -> str:
         self.fields += 1
@@ -101,6 +102,7 @@ class Run:
             "left_as_written": [{"name": a, "why": how, "candidates": list(c), "count": n}
                                 for (a, how, c), n in self.left.most_common()],
             "errors": self.errors,
+            "notes": self.notes,
         }
 
     def report_text(self) -> str:
@@ -116,6 +118,7 @@ class Run:
             extra = ": " + " | ".join(x["candidates"]) if x["candidates"] else ""
             lines.append(f"  {x['count']:>5}  {x['name']}  left as written ({x['why']}){extra}")
         lines += [f"  error: {e}" for e in r["errors"]]
+        lines += [f"  note: {e}" for e in r["notes"]]
         return "\n".join(lines) + "\n"
 
 
@@ -165,7 +168,7 @@ def _bibtex(text: str, run: Run, path: str) -> str:
     changes: dict[int, str] = {}
     for f in journals:
         if not f.delimited:
-            run.errors.append(f"{path}:{f.line}: journal of {f.entry_key!r} is a macro or concatenation; not rewritten")
+            run.notes.append(f"{path}:{f.line}: journal of {f.entry_key!r} is a macro or concatenation; not rewritten")
             continue
         old = decoded[f.start]
         new = run.rewrite(old)

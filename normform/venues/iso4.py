@@ -126,8 +126,8 @@ class Iso4Engine:
             return title
         raw = self._punctuation(raw_abbreviation(title))
         pairs = align(title, raw)
-        if not pairs:
-            return raw
+        if not pairs or len(pairs) < 2:
+            return raw      # single-word titles stay whole (ISO 4)
         written = [original for _, original in significant_pairs(title)]
         out: list[str] = []
         for (word, token), original in zip(pairs, written):

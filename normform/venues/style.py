@@ -97,13 +97,20 @@ class VenueStyle:
 
     # -- lookups ------------------------------------------------------------
     def _table_venues(self, name: str) -> tuple[list[Venue], str] | None:
-        for table, how in ((self.house, HOUSE), (self.table, TABLE)):
-            if table is None:
-                continue
-            found = table.venues_for(name)
+        if self.house is not None:
+            found = self.house.venues_for(name)
             if found:
-                return found, how
-        return None
+                return found, HOUSE
+        found = self.table.venues_for(name)
+        if not found:
+            return None
+        if self.house is not None:
+            # the shipped table recognised a spelling; the house row for that
+            # venue's full title still decides the form
+            ours = [h for v in found for h in self.house.venues_for(v.full)]
+            if ours:
+                return ours, HOUSE
+        return found, TABLE
 
     def _former(self, name: str) -> bool:
         return any(h.role == "former" for h in self.table.lookup(name))

@@ -43,11 +43,13 @@ def formula_disagrees(entry, ctx):
             continue
         index = verdict_detail(v, "index")
         expected, computed = verdict_detail(v, "expected"), verdict_detail(v, "computed")
-        if index is not None:
+        reason = verdict_detail(v, "reason")
+        if index is not None and expected is not None and computed is not None:
             message = (f"the formula gives a({index}) = {computed} but the terms list {expected}; "
                        "correct the formula or the terms")
         else:
-            message = f"the formula does not produce the listed terms ({verdict_detail(v, 'reason')})"
+            message = f"the formula does not fit the listed terms ({reason or 'no reason given'}); " \
+                      "correct the formula or the terms"
         found = entry.finding(formula_disagrees.rule, message, fact.path)
         if isinstance(index, int) and 0 <= index - start < len(entry.data.get("terms", [])):
             span = entry.where.span(("terms", index - start))

@@ -96,35 +96,44 @@ def reference_duplicate(entry, ctx):
             seen[key] = item.path
 
 
-def _same_record(a, b) -> bool:
-    """True when a restyled line still carries every field of the original record."""
-    def core(r):
-        return ([n.family_full() for n in r.authors], r.title, r.container_title, r.volume, r.issue,
-                r.year, r.pages.range_text() if r.pages else None,
-                sorted((i.scheme, i.value.lower()) for i in r.identifiers), r.publisher)
-    return core(a) == core(b)
+def _core(r) -> dict:
+    return {
+        "authors": [n.family_full() for n in r.authors], "title": r.title, "venue": r.container_title,
+        "volume": r.volume, "issue": r.issue, "year": r.year,
+        "pages": r.pages.range_text() if r.pages else None,
+        "identifiers": sorted((i.scheme, i.value.lower()) for i in r.identifiers), "publisher": r.publisher,
+    }
 
 
-@rule("reference-house-style", "references", "note", "a reference line differs from the house style", fixable=True)
+def _lost(a, b) -> list[str]:
+    """Fields of record ``a`` that the restyled line (read back as ``b``) does not carry the same."""
+    ca, cb = _core(a), _core(b)
+    return [k for k in ca if ca[k] != cb[k]]
+
+
+@rule("reference-house-style", "references", "note",
+      "a confidently read reference line differs from the house style (setting style-confidence)", fixable=True)
 def reference_house_style(entry, ctx):
     style = None
     for item in items(entry):
         if item.text is None:
             continue
         ref = parsed(entry, item)
-        if (ref.confidence or 0) < ctx.settings.min_confidence:
-            continue
+        if (ref.confidence or 0) < ctx.settings.style_confidence:
+            continue   # a rewrite of a doubtful reading could lose what the line says
         style = style or services.house_style()
         styled = style.format(ref)
         if not styled or styled == item.text:
             continue
-        fix = None
-        if (ref.confidence or 0) >= ctx.settings.style_confidence:
-            try:
-                again = services.parse_reference(styled)
-            except ValueError:
-                again = None
-            if again is not None and _same_record(ref, again):
-                fix = Fix("rewrite in house style", (entry.replace_value(item.path, styled),))
-        yield entry.finding(reference_house_style.rule, f"write this reference in house style: {styled}",
-                            item.path, fix=fix)
+        try:
+            lost = _lost(ref, services.parse_reference(styled))
+        except ValueError:
+            lost = ["everything (the restyled line cannot be read)"]
+        if not lost:
+            yield entry.finding(reference_house_style.rule, f"write this reference in house style: {styled}",
+                                item.path,
+                                fix=Fix("rewrite in house style", (entry.replace_value(item.path, styled),)))
+        else:
+            yield entry.finding(reference_house_style.rule, f"this reference differs from the house style; "
+                                f"rewrite it by hand (the automatic form would change {', '.join(lost)}): "
+                                f"{styled}", item.path)

@@ -89,11 +89,19 @@ _DASH_NAMES = {"-": "a hyphen '-'", "–": "an en dash '–'", "—": "an em das
 @rule("mixed-dashes", "text", "note", "number ranges in the entry are written with different dashes")
 def mixed_dashes(entry, ctx):
     seen = []
+    masked: dict[tuple, list[tuple[int, int]]] = {}
+    if "references" in entry.data:   # identifiers (ISSN 0015-0517, ISBNs) are not ranges
+        from normform.lint.refs_facts import reference_ids
+
+        for _ref, _ident, (path, start, end) in reference_ids(entry):
+            masked.setdefault(path, []).append((start, end))
     for path, value, role in strings(entry):
         if role not in (LINE, BLOCK):
             continue
+        spans = masked.get(path, ())
         for m in _RANGE.finditer(value):
-            seen.append((path, m.start(2), m.group(2)))
+            if not any(a <= m.start() < b for a, b in spans):
+                seen.append((path, m.start(2), m.group(2)))
     styles = Counter(d for _, _, d in seen)
     if len(styles) < 2:
         return

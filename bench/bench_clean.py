@@ -1,0 +1,135 @@
+#!/usr/bin/env python3
+"""Throughput and memory of ``normform clean`` (a plain script, not a test).
+
+    nice -n 10 python bench/bench_clean.py                 # 100,000 lines, 1 and 2 jobs
+    nice -n 10 python bench/bench_clean.py --lines 1000000 --jobs 2
+
+The input is the demo generator's invented legacy lines (fixed seed).  For
+each run it prints wall time, lines/s, the speed-up from 1 to N jobs, and
+peak memory: the largest single process (``ru_maxrss`` of the children)
+and the sampled sum over the main process and its workers (psutil, when
+installed).  As a yardstick from a general-purpose library measured in the
+same run, it parses the produced ``references.bib`` with pybtex and prints
+the ratio of clean's lines/s to pybtex's entries/s.
+"""
+
+from __future__ import annotations
+
+import argparse
+import json
+import resource
+import shutil
+import subprocess
+import sys
+import tempfile
+import threading
+import time
+from pathlib import Path
+
+ROOT = Path(__file__).resolve().parent.parent
+sys.path.insert(0, str(ROOT / "scripts"))
+
+
+def make_input(path: Path, lines: int) -> None:
+    from make_demo_corpus import build
+
+    data = build(lines)
+    with open(path, "wb") as handle:
+        for raw in data:
+            handle.write(raw + b"\n")
+
+
+def _sample_rss(pid: int, stop: threading.Event, peak: list[int]) -> None:
+    try:
+        import psutil
+    except ImportError:
+        return
+    try:
+        proc = psutil.Process(pid)
+        while not stop.is_set():
+            try:
+                total = proc.memory_info().rss + sum(c.memory_info().rss for c in proc.children(recursive=True))
+            except psutil.Error:
+                break
+            peak[0] = max(peak[0], total)
+            time.sleep(0.2)
+    except psutil.Error:
+        pass
+
+
+def run_clean(src: Path, out: Path, jobs: int, engine_args: list[str]) -> dict:
+    if out.exists():
+        shutil.rmtree(out)
+    before = resource.getrusage(resource.RUSAGE_CHILDREN).ru_maxrss
+    cmd = [sys.executable, "-m", "normform.cli", "clean", str(src), "-o", str(out),
+           "--jobs", str(jobs), "--quiet", *engine_args]
+    start = time.perf_counter()
+    proc = subprocess.Popen(cmd, stdout=subprocess.PIPE, stderr=subprocess.PIPE, text=True)
+    stop, peak = threading.Event(), [0]
+    sampler = threading.Thread(target=_sample_rss, args=(proc.pid, stop, peak), daemon=True)
+    sampler.start()
+    stdout, stderr = proc.communicate()
+    seconds = time.perf_counter() - start
+    stop.set()
+    sampler.join()
+    if proc.returncode != 0:
+        raise SystemExit(f"clean failed ({proc.returncode}):\n{stderr[-3000:]}")
+    after = resource.getrusage(resource.RUSAGE_CHILDREN).ru_maxrss
+    summary = json.loads((out / "summary.json").read_text())
+    return {"jobs": jobs, "seconds": seconds, "records": summary["records"],
+            "lines_per_s": summary["records"] / seconds,
+            "max_process_rss_mb": max(after, before) / 1024,   # ru_maxrss is in KiB on Linux
+            "sum_rss_mb": peak[0] / 2**20 if peak[0] else None,
+            "check": stdout.strip().splitlines()[0]}
+
+
+def pybtex_rate(bib: Path, limit: int = 20000) -> float:
+    from pybtex.database import parse_string
+
+    text = bib.read_text("utf-8")
+    # the first `limit` entries keep the yardstick short
+    cut = 0
+    for _ in range(limit):
+        nxt = text.find("\n@", cut + 1)
+        if nxt < 0:
+            cut = len(text)
+            break
+        cut = nxt
+    sample = text[:cut]
+    start = time.perf_counter()
+    db = parse_string(sample, "bibtex")
+    return len(db.entries) / (time.perf_counter() - start)
+
+
+def main() -> int:
+    parser = argparse.ArgumentParser(description=__doc__.splitlines()[0])
+    parser.add_argument("--lines", type=int, default=100_000)
+    parser.add_argument("--jobs", type=int, nargs="+", default=[1, 2])
+    args = parser.parse_args()
+    with tempfile.TemporaryDirectory(prefix="bench-clean-") as tmp:
+        tmp = Path(tmp)
+        src = tmp / "legacy.txt"
+        t = time.perf_counter()
+        make_input(src, args.lines)
+        print(f"input: {args.lines:,} generated lines ({src.stat().st_size / 2**20:.1f} MiB) "
+              f"in {time.perf_counter() - t:.1f}s")
+        runs = []
+        for jobs in args.jobs:
+            r = run_clean(src, tmp / f"out{jobs}", jobs, [])
+            runs.append(r)
+            sums = f", sum over processes {r['sum_rss_mb']:.0f} MB" if r["sum_rss_mb"] else ""
+            print(f"jobs={jobs}: {r['records']:,} records in {r['seconds']:.1f}s = "
+                  f"{r['lines_per_s']:,.0f} lines/s ({r['lines_per_s'] / jobs:,.0f} per job); "
+                  f"peak RSS largest process {r['max_process_rss_mb']:.0f} MB{sums}")
+            print(f"         {r['check']}")
+        if len(runs) > 1:
+            print(f"speed-up {runs[0]['jobs']} -> {runs[-1]['jobs']} jobs: "
+                  f"{runs[-1]['lines_per_s'] / runs[0]['lines_per_s']:.2f}x")
+        rate = pybtex_rate(tmp / f"out{args.jobs[0]}" / "references.bib")
+        print(f"yardstick: pybtex parses the produced BibTeX at {rate:,.0f} entries/s; "
+              f"clean (jobs={runs[0]['jobs']}) / pybtex parse = {runs[0]['lines_per_s'] / rate:.2f}")
+    return 0
+
+
+if __name__ == "__main__":
+    raise SystemExit(main())

@@ -1,0 +1,149 @@
+"""Plain text: the catalogue's compact house style, or any CSL style by name.
+
+House style (designed for one-line catalogue references; examples in
+docs/readme-foundation.md):
+
+    A. Quill and B. L. van der Feather, On the Riemann hypothesis, Quillfeather Soc. Bull. 12:3 (2001), 1-20. doi:10.1000/182; MR1234567
+
+* authors as initials and family name, joined with commas and a final "and";
+  editors of an edited book are followed by "(ed.)" / "(eds.)";
+* article: ``Journal Volume:Issue (Year), first-last`` (or ``Art. N``);
+* book: ``Series Number, Publisher, Place, Year`` with ``ed. N``;
+* chapter / paper: ``in: Container, Publisher, Year, pp. first-last``;
+* thesis / report: genre, institution, year;
+* identifiers last, in a fixed order: doi, arXiv (with class), MR, Zbl, ISBN, handle, URL
+  (a URL only when there is no DOI or arXiv id).
+"""
+
+from __future__ import annotations
+
+import re
+from typing import Iterable
+
+from normform.export.base import Exporter
+from normform.ids import arxiv, isbn, mr, zbl
+from normform.model import Kind, Name, Reference
+
+
+def initials(given: str) -> str:
+    """``Ada Lovelace`` -> ``A. L.``; ``Jean-Pierre`` -> ``J.-P.``; initials are kept."""
+    out = []
+    for word in given.split():
+        parts = word.split("-")
+        out.append("-".join(p[0] + "." if p and p[0].isalpha() else p for p in parts))
+    return " ".join(out)
+
+
+def short_name(name: Name) -> str:
+    if name.literal is not None:
+        return name.literal
+    head = " ".join(p for p in (initials(name.given) if name.given else None, name.dropping_particle,
+                                name.particle, name.family) if p)
+    return f"{head}, {name.suffix}" if name.suffix else head
+
+
+def name_list(names: tuple[Name, ...]) -> str:
+    shown = [short_name(n) for n in names]
+    if len(shown) <= 1:
+        return "".join(shown)
+    return ", ".join(shown[:-1]) + " and " + shown[-1]
+
+
+def _range(first: str | None, last: str | None) -> str | None:
+    if first and last:
+        return f"{first}-{last}"
+    return first or last
+
+
+class HouseStyle(Exporter):
+    name = "text"
+    suffix = ".txt"
+
+    def parts(self, ref: Reference) -> list[str]:
+        out: list[str] = []
+        if ref.authors:
+            out.append(name_list(ref.authors))
+        elif ref.editors and ref.kind in (Kind.BOOK, Kind.OTHER):
+            out.append(name_list(ref.editors) + (" (eds.)" if len(ref.editors) > 1 else " (ed.)"))
+        if ref.title:
+            out.append(ref.title)
+        d = ref.date
+        year = None
+        if d:
+            year = (f"c. {d.year}" if d.circa else str(d.year)) if d.year else d.literal
+        p = ref.pages
+        pages = _range(p.first, p.last) if p else None
+        if ref.kind is Kind.ARTICLE:
+            venue = ref.container_title or ""
+            if ref.volume:
+                venue += f" {ref.volume}" + (f":{ref.issue}" if ref.issue else "")
+            elif ref.issue:
+                venue += f" no. {ref.issue}"
+            if year:
+                venue += f" ({year})"
+            if venue.strip():
+                out.append(venue.strip())
+            if pages:
+                out.append(pages)
+            elif p and p.article:
+                out.append(f"Art. {p.article}")
+        else:
+            if ref.kind in (Kind.CHAPTER, Kind.PAPER) and ref.container_title:
+                container = f"in: {ref.container_title}"
+                if ref.authors and ref.editors:
+                    container += f" ({name_list(ref.editors)}, {'eds.' if len(ref.editors) > 1 else 'ed.'})"
+                out.append(container)
+            if ref.edition:
+                out.append(f"ed. {ref.edition}" if re.fullmatch(r"\d+", ref.edition) else ref.edition)
+            if ref.series:
+                out.append(ref.series + (f" {ref.series_number}" if ref.series_number else "")
+                           + (f", vol. {ref.volume}" if ref.volume else ""))
+            elif ref.volume:
+                out.append(f"vol. {ref.volume}")
+            if ref.genre:
+                out.append(ref.genre)
+            for piece in (ref.publisher, ref.place, year):
+                if piece:
+                    out.append(piece)
+            if pages:
+                out.append(f"pp. {pages}" if ref.kind in (Kind.CHAPTER, Kind.PAPER) else pages)
+            if p and p.count:
+                out.append(f"{p.count} pp.")
+        return out
+
+    def identifiers(self, ref: Reference) -> list[str]:
+        out = []
+        for i in ref.idents("doi"):
+            out.append("doi:" + i.value)
+        for i in ref.idents("arxiv"):
+            out.append(arxiv.format(i.value) + (f" [{i.detail}]" if i.detail else ""))
+        for i in ref.idents("mr"):
+            out.append(mr.format(i.value))
+        for i in ref.idents("zbl"):
+            out.append(zbl.format(i.value))
+        if not ref.idents("doi"):
+            for i in ref.idents("isbn"):
+                out.append("ISBN " + (isbn.format(i.value) if i.valid else i.value))
+        for i in ref.idents("handle"):
+            out.append("hdl:" + i.value)
+        if not (ref.idents("doi") or ref.idents("arxiv")):
+            out += [i.value for i in ref.idents("url")]
+        return out
+
+    def format(self, ref: Reference) -> str:
+        body = ", ".join(self.parts(ref))
+        text = body.rstrip(".") + "." if body else ""
+        idents = self.identifiers(ref)
+        if ref.note:
+            text += f" {ref.note.rstrip('.')}."
+        if idents:
+            text += " " + "; ".join(idents)
+        return text.strip()
+
+    record = format
+
+    def dumps(self, refs: Iterable[Reference]) -> str:
+        return "".join(self.format(ref) + "\n" for ref in refs)
+
+
+__all__ = ["HouseStyle", "initials", "short_name", "name_list"]

@@ -1,0 +1,141 @@
+"""``normform formula``: parse plain-text formulas line by line; render, evaluate, compute terms."""
+
+from __future__ import annotations
+
+import argparse
+import json
+import sys
+
+
+def configure(parser: argparse.ArgumentParser) -> None:
+    parser.add_argument("expr", nargs="?", default="-",
+                        help="a formula, or '-' (default) to read one formula per line from stdin")
+    parser.add_argument("--to", choices=("ascii", "latex", "mathml", "json"), default="ascii",
+                        help="output format (default: canonical ascii)")
+    parser.add_argument("--display", choices=("block", "inline"), default="block",
+                        help="MathML display mode (default: block)")
+    parser.add_argument("--at", metavar="VARS",
+                        help="evaluate each formula at this point, e.g. n=5,k=2 (values: integers or p/q)")
+    parser.add_argument("--digits", type=int, default=40,
+                        help="significant digits for irrational values (default: 40)")
+    parser.add_argument("--terms", type=int, metavar="N", help="print the first N terms the formula defines")
+    parser.add_argument("--first-index", type=int, default=None, metavar="I",
+                        help="index of the first term (default: the smallest initial index, else 0)")
+    parser.add_argument("--initial", metavar="V,V,...",
+                        help="initial values a(I), a(I+1), ... for a recurrence that does not state them")
+
+
+def _point(spec: str) -> dict[str, object]:
+    from fractions import Fraction
+
+    from normform.cli import UsageError
+
+    out: dict[str, object] = {}
+    for part in spec.split(","):
+        if not part.strip():
+            continue
+        name, eq, value = part.partition("=")
+        if not eq or not name.strip():
+            raise UsageError(f"--at expects name=value pairs, got {part!r}")
+        try:
+            out[name.strip()] = Fraction(value.strip())
+        except (ValueError, ZeroDivisionError):
+            raise UsageError(f"--at value for {name.strip()} is not a number: {value!r}") from None
+    return out
+
+
+def _initial(spec: str) -> list:
+    from fractions import Fraction
+
+    from normform.cli import UsageError
+
+    try:
+        return [Fraction(v.strip()) for v in spec.split(",") if v.strip()]
+    except (ValueError, ZeroDivisionError):
+        raise UsageError(f"--initial expects comma-separated numbers, got {spec!r}") from None
+
+
+def show_value(value) -> str:
+    """``p/q`` for rationals; an approximation is printed with its digits and marked."""
+    from fractions import Fraction
+
+    if isinstance(value, bool):
+        return "true" if value else "false"
+    if isinstance(value, int):
+        return str(value)
+    if isinstance(value, Fraction):
+        return str(value.numerator) if value.denominator == 1 else f"{value.numerator}/{value.denominator}"
+    exact = getattr(value, "exact", None)
+    text = f"{value} (approx.)"
+    return f"{text} = {exact}" if exact else text
+
+
+def run(args: argparse.Namespace) -> int:
+    from normform.formula.api import parse_formula
+    from normform.formula.errors import EvaluationError, FormulaError
+
+    if hasattr(sys, "set_int_max_str_digits"):
+        sys.set_int_max_str_digits(0)  # exact results are capped in bits by the evaluator; print them whole
+    point = _point(args.at) if args.at else None
+    initial = _initial(args.initial) if args.initial else None
+    if args.terms is not None and args.terms < 0:
+        from normform.cli import UsageError
+
+        raise UsageError("--terms must be >= 0")
+    if args.expr == "-":
+        lines = (line.rstrip("\n") for line in sys.stdin)
+    else:
+        lines = iter(args.expr.splitlines() or [""])
+    failures = 0
+    out = sys.stdout
+    for lineno, line in enumerate(lines, 1):
+        if not line.strip():
+            continue
+        record: dict[str, object] = {"input": line, "ok": False}
+        try:
+            f = parse_formula(line)
+        except FormulaError as exc:
+            failures += 1
+            record["error"] = {"line": lineno, "column": exc.column, "message": exc.describe().split(": ", 1)[-1]}
+            if args.to == "json":
+                out.write(json.dumps(record, ensure_ascii=False) + "\n")
+            else:
+                print(f"normform formula: line {lineno}, column {exc.column}: {exc.describe().split(': ', 1)[-1]}",
+                      file=sys.stderr)
+                print(exc.excerpt(), file=sys.stderr)
+            continue
+        record.update(ok=True, kind=f.kind)
+        problems = []
+        if args.to == "json":
+            record.update(ascii=f.to_ascii(), latex=f.to_latex(), mathml=f.to_mathml(args.display))
+        if point is not None:
+            try:
+                record["value"] = show_value(f.evaluate_at(point, digits=args.digits))
+            except EvaluationError as exc:
+                problems.append(f"cannot evaluate: {exc}")
+        if args.terms is not None:
+            try:
+                first = args.first_index
+                if first is None:
+                    first = min((k for k in f.initial if isinstance(k, int)), default=0)
+                record["terms"] = [show_value(t) for t in f.terms(first, args.terms, initial)]
+            except (EvaluationError, ValueError, ImportError, NotImplementedError) as exc:
+                problems.append(f"cannot compute terms: {exc}")
+        if problems:
+            failures += 1
+            record["ok"] = False
+            record["error"] = {"line": lineno, "column": 1, "message": "; ".join(problems)}
+        if args.to == "json":
+            out.write(json.dumps(record, ensure_ascii=False) + "\n")
+            continue
+        for p in problems:
+            print(f"normform formula: line {lineno}: {p}", file=sys.stderr)
+        if point is not None or args.terms is not None:
+            if "value" in record:
+                out.write(str(record["value"]) + "\n")
+            if "terms" in record:
+                out.write(", ".join(record["terms"]) + "\n")
+            continue
+        text = {"ascii": f.to_ascii, "latex": f.to_latex}.get(args.to)
+        out.write((text() if text else f.to_mathml(args.display)) + "\n")
+    return 1 if failures else 0

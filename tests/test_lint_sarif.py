@@ -1,0 +1,57 @@
+"""SARIF 2.1.0 output, validated against the OASIS schema (tests/fixtures/lint/SOURCE.md)."""
+
+from __future__ import annotations
+
+import json
+
+import jsonschema
+import pytest
+
+from lint_support import DEMO, FIXTURES, REPO, run_cli
+
+
+@pytest.fixture(scope="module")
+def validator():
+    schema = json.loads((FIXTURES / "sarif-schema-2.1.0.json").read_text("utf-8"))
+    jsonschema.Draft4Validator.check_schema(schema)       # the file declares draft-04
+    return jsonschema.Draft4Validator(schema)
+
+
+@pytest.fixture(scope="module")
+def demo_log():
+    done = run_cli("corpus_demo/entries", "--format", "sarif", cwd=REPO)
+    assert done.returncode == 1
+    return json.loads(done.stdout)
+
+
+def test_demo_log_is_valid_sarif(validator, demo_log):
+    errors = sorted(validator.iter_errors(demo_log), key=str)
+    assert not errors, errors[0].message
+
+
+def test_validator_rejects_a_broken_log(validator, demo_log):
+    broken = json.loads(json.dumps(demo_log))
+    broken["runs"][0]["results"][0]["level"] = "fatal"          # not a SARIF level
+    assert list(validator.iter_errors(broken))
+    del broken["version"]
+    assert list(validator.iter_errors(broken))
+
+
+def test_results_carry_rules_regions_and_fixes(demo_log):
+    run = demo_log["runs"][0]
+    assert demo_log["version"] == "2.1.0" and run["columnKind"] == "unicodeCodePoints"
+    rules = run["tool"]["driver"]["rules"]
+    for result in run["results"]:
+        assert rules[result["ruleIndex"]]["id"] == result["ruleId"]
+        region = result["locations"][0]["physicalLocation"]["region"]
+        assert region["startLine"] >= 1 and region["startColumn"] >= 1
+    by_rule = {r["ruleId"]: r for r in run["results"]}
+    ctrl = by_rule["control-character"]
+    assert ctrl["locations"][0]["physicalLocation"]["artifactLocation"]["uri"] == "corpus_demo/entries/Q000018.json"
+    assert ctrl["locations"][0]["physicalLocation"]["region"]["startLine"] == 3
+    fix = ctrl["fixes"][0]["artifactChanges"][0]["replacements"][0]
+    text = (DEMO / "Q000018.json").read_text("utf-8").splitlines()
+    region = fix["deletedRegion"]
+    assert text[region["startLine"] - 1][region["startColumn"] - 1:region["endColumn"] - 1] == \
+        '"Central Delannoy numbers\\u0007"'
+    assert fix["insertedContent"]["text"] == '"Central Delannoy numbers"'
