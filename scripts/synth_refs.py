@@ -233,6 +233,43 @@ def _arxiv(r: random.Random, year: int) -> str:
     return s
 
 
+_JPAT = ("Journal of {F}", "{F} Letters", "Annals of {F}", "{F} Quarterly", "Advances in {F}",
+         "International Journal of {F}", "Communications in {F}", "Transactions on {F}", "{F} Review",
+         "Bulletin of {F}", "Studies in {F}", "Archive for {F}", "Acta {F}", "Journal of Applied {F}")
+_JABBR = {"Journal": "J.", "Letters": "Lett.", "Annals": "Ann.", "Quarterly": "Quart.", "Advances": "Adv.",
+          "International": "Int.", "Communications": "Comm.", "Transactions": "Trans.", "Review": "Rev.",
+          "Bulletin": "Bull.", "Studies": "Stud.", "Archive": "Arch.", "Applied": "Appl.", "theory": "Theory",
+          "Theory": "Theory", "analysis": "Anal.", "Analysis": "Anal.", "geometry": "Geom.", "Geometry": "Geom.",
+          "algebra": "Algebra", "Mathematics": "Math.", "Mathematical": "Math.", "Combinatorics": "Combin.",
+          "Topology": "Topol.", "Physics": "Phys.", "Probability": "Probab.", "Logic": "Logic",
+          "Computer": "Comput.", "Science": "Sci.", "Statistical": "Statist.", "Differential": "Differential",
+          "Equations": "Equations", "Number": "Number", "Systems": "Syst."}
+_PUBPAT = ("{N} Press", "{N} Verlag", "Editorial {N}", "{N} Books", "{N} University Press", "{N} & Sons",
+           "{N} Publishing", "{N} Academic Publishers", "Éditions {N}", "{N} Scientific", "Presses Universitaires de {N}",
+           "{N} Mathematical Society", "Institute for {F}", "{N} Verlag GmbH", "{N}-Verlag", "Ediciones {N}")
+_NOTES = ("Reprint of the {y} original", "Translated from the French by {p}", "Second printing",
+          "With a foreword by {p}", "Corrected reprint of the {y} edition", "Lecture notes",
+          "Revised edition", "In Russian", "Available online", "Unpublished lecture notes",
+          "Translated from the German", "Appendix by {p}", "Online note", "With an appendix by {p}",
+          "Reprinted in Collected Papers, Vol. {v}", "Erratum in vol. {v}")
+
+
+def _invented_journal(r: random.Random) -> tuple[str, str]:
+    f = r.choice(_FIELDS)
+    f = " ".join(w[:1].upper() + w[1:] for w in f.split())
+    full = r.choice(_JPAT).format(F=f)
+    abbr = " ".join(_JABBR.get(w, w) for w in full.replace(" of ", " ").replace(" on ", " ").replace(" in ", " ")
+                    .replace(" for ", " ").split())
+    return full, abbr
+
+
+def _invented_publisher(r: random.Random) -> tuple[str, str]:
+    name = r.choice((_family(r), r.choice(_SYL1) + r.choice(_SYL2), "Quillfeather", r.choice(lx.PUBLISHERS)[0].split()[0]))
+    pub = r.choice(_PUBPAT).format(N=name, F=r.choice(_FIELDS).title())
+    place = r.choice(sorted({pl for _, pl in lx.PUBLISHERS}) + ["Quillfeather", "Utrecht", "Lyon", "Kraków", "Seoul"])
+    return pub, place
+
+
 def make_record(r: random.Random, i: int) -> dict:
     kinds = ("article-journal", "book", "chapter", "paper-conference", "thesis", "report",
              "manuscript", "webpage", "software", "personal")
@@ -250,7 +287,7 @@ def make_record(r: random.Random, i: int) -> dict:
     if r.random() < 0.15:
         rec["issued"]["date-parts"][0].append(r.randint(1, 12))
     if typ == "article-journal":
-        full, abbr = r.choice(lx.JOURNALS)
+        full, abbr = r.choice(lx.JOURNALS) if r.random() < 0.65 else _invented_journal(r)
         rec["container-title"] = abbr if r.random() < 0.55 else full
         rec["volume"] = str(r.randint(1, 400) if r.random() < 0.95 else r.randint(1000, 1999))
         if r.random() < 0.6:
@@ -265,7 +302,7 @@ def make_record(r: random.Random, i: int) -> dict:
             rec["number"] = r.choice((f"Paper {r.randint(1, 30)}", f"e{r.randint(1000, 99999)}",
                                       f"{r.randint(1, 20)}.{r.randint(1, 9)}.{r.randint(1, 9)}"))
     elif typ in ("book", "chapter", "paper-conference"):
-        pub, place = r.choice(lx.PUBLISHERS)
+        pub, place = r.choice(lx.PUBLISHERS) if r.random() < 0.7 else _invented_publisher(r)
         rec["publisher"] = pub
         if r.random() < 0.7:
             rec["publisher-place"] = place
@@ -313,6 +350,10 @@ def make_record(r: random.Random, i: int) -> dict:
         rec["arxiv"] = _arxiv(r, year)
     if typ == "book" and r.random() < 0.2:
         rec["ISBN"] = _isbn(r, r.random() < 0.6)
+    if r.random() < 0.07:
+        who = make_person(r)
+        rec["note"] = r.choice(_NOTES).format(y=r.randint(1900, 2000), v=r.randint(1, 5),
+                                              p=f"{who['given']} {who['family']}")
     return rec
 
 
@@ -321,7 +362,7 @@ CSL_TO_LABEL = {
     "title": "title", "container-title": "container_title", "collection-title": "series",
     "collection-number": "series_number", "volume": "volume", "issue": "issue", "page": "pages",
     "publisher": "publisher", "publisher-place": "place", "edition": "edition", "genre": "genre",
-    "number": "pages", "number-of-pages": "pages",
+    "number": "pages", "number-of-pages": "pages", "note": "note",
 }
 
 
@@ -384,7 +425,7 @@ def align(text: str, rec: dict) -> list[tuple[int, int, str]] | None:
                 taken[j] = lab
 
     # long text fields first
-    for key in ("title", "container-title", "collection-title", "publisher", "publisher-place", "genre"):
+    for key in ("title", "container-title", "collection-title", "publisher", "publisher-place", "genre", "note"):
         if key not in rec:
             continue
         want = _want(rec[key])
@@ -568,6 +609,8 @@ def render_pybtex(style_name: str, rec: dict) -> str | None:
         fields["school" if typ == "phdthesis" else "institution"] = rec.get("publisher", "")
         if typ == "phdthesis" and "Master" in rec.get("genre", ""):
             typ = "mastersthesis"
+    if rec.get("note"):
+        fields["note"] = rec["note"]
     if typ == "unpublished":
         fields["note"] = "Preprint, arXiv:" + rec.get("arxiv", "")
     if typ == "misc" and "URL" in rec:
@@ -829,6 +872,10 @@ def render_template(rec: dict, r: random.Random) -> list[tuple[str, str]]:
         b.o(r.choice((", ", ". "))).f(r.choice(("ISBN ", "ISBN: ", "ISBN-13: ")) + rec["ISBN"], "isbn")
     if "arxiv" in rec and typ != "manuscript" and r.random() < 0.8:
         b.o(r.choice((", ", ". ", " "))).f("arXiv:" + rec["arxiv"], "arxiv")
+    if rec.get("note") and r.random() < 0.8:
+        b.o(r.choice((". ", ", ", " ("))).f(rec["note"], "note")
+        if b.p[-2][0] == " (":
+            b.o(")")
     b.o(endp)
     if "mr" in rec and r.random() < 0.8:
         code = f" ({r.randint(50, 99)}{r.choice('abcdefghijkl') if r.random() < 0.5 else ''} #{r.randint(1000, 9999)})" \

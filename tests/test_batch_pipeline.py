@@ -142,3 +142,38 @@ def test_plain_log_lines_when_not_a_tty(tmp_path):
     clean([str(src)], tmp_path / "out", toolkit=FAKE, jobs=1, chunk_size=50, err=quiet,
           progress_interval=0.0, quiet=True)
     assert quiet.getvalue() == ""
+
+
+def test_progress_bar_on_a_terminal(tmp_path):
+    import os
+    import pty
+    import subprocess
+
+    src = write_lines(tmp_path / "in.txt", 300)
+    here = str(FIXTURES)
+    code = ("import sys; sys.path.insert(0, %r); from normform.batch import command; "
+            "sys.exit(command.main(sys.argv[1:], toolkit=%r))" % (here, FAKE))
+    import fcntl
+    import struct
+    import termios
+
+    leader, follower = pty.openpty()
+    fcntl.ioctl(follower, termios.TIOCSWINSZ, struct.pack("HHHH", 24, 100, 0, 0))   # 24x100 terminal
+    proc = subprocess.Popen([sys.executable, "-c", code, str(src), "-o", str(tmp_path / "out"),
+                             "--jobs", "1", "--chunk-size", "50"],
+                            stdout=subprocess.DEVNULL, stderr=follower, stdin=subprocess.DEVNULL)
+    os.close(follower)
+    chunks = []
+    while True:
+        try:
+            data = os.read(leader, 4096)
+        except OSError:        # EIO once the child closed the terminal
+            break
+        if not data:
+            break
+        chunks.append(data)
+    proc.wait(timeout=60)
+    os.close(leader)
+    screen = b"".join(chunks).decode("utf-8", "replace")
+    assert proc.returncode == 0
+    assert "300/300" in screen and "lines/s" in screen     # tqdm's bar: count and rate

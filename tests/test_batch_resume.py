@@ -50,9 +50,30 @@ def _kill_mid_way(proc: subprocess.Popen, out: Path, sig: int, at: int) -> int:
         assert proc.poll() is None, proc.stderr.read().decode()
         assert time.monotonic() < deadline, "the run made no progress"
         time.sleep(0.02)
+    children = _children(proc.pid)
     proc.send_signal(sig)
     proc.wait(timeout=30)
-    return _items_done(out)
+    # worker processes must not outlive the killed run
+    deadline = time.monotonic() + 10
+    while any(_alive(pid) for pid in children):
+        assert time.monotonic() < deadline, f"orphaned workers: {children}"
+        time.sleep(0.05)
+    return _items_done(out), children
+
+
+def _children(pid: int) -> list[int]:
+    try:
+        return [int(x) for x in Path(f"/proc/{pid}/task/{pid}/children").read_text().split()]
+    except OSError:
+        return []
+
+
+def _alive(pid: int) -> bool:
+    try:
+        status = Path(f"/proc/{pid}/status").read_text()
+    except OSError:
+        return False
+    return "\nState:\tZ" not in status
 
 
 @pytest.mark.parametrize("sig,jobs", [(signal.SIGKILL, 1), (signal.SIGINT, 2), (signal.SIGTERM, 2)])
@@ -64,7 +85,8 @@ def test_killed_run_resumes_to_identical_outputs(tmp_path, sig, jobs):
 
     out = tmp_path / "out"
     proc = _start(src, out, jobs)
-    done = _kill_mid_way(proc, out, sig, at=400)
+    done, children = _kill_mid_way(proc, out, sig, at=400)
+    assert len(children) == (jobs if jobs > 1 else 0)      # the workers we checked for orphans
     assert proc.returncode != 0
     assert 400 <= done < n + 1, "the kill must land mid-way"
     assert not (out / "records.jsonl").exists()      # nothing half-finished in place

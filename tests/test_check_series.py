@@ -133,7 +133,7 @@ def _random_poly(rng: random.Random, degree: int, const_nonzero: bool) -> list[i
     return coeffs
 
 
-@pytest.mark.parametrize("seed", range(25))
+@pytest.mark.parametrize("seed", range(12))
 def test_random_rational_gf_against_sympy_series(seed):
     rng = random.Random(seed)
     num = _random_poly(rng, rng.randint(0, 6), False)
@@ -150,7 +150,7 @@ def test_random_rational_gf_against_sympy_series(seed):
     assert list(ours.coeffs) == want
 
 
-@pytest.mark.parametrize("seed", range(10))
+@pytest.mark.parametrize("seed", range(6))
 def test_random_sqrt_and_exp_against_sympy_series(seed):
     rng = random.Random(1000 + seed)
     p = [1] + [rng.randint(-4, 4) for _ in range(3)]

@@ -97,6 +97,13 @@ def test_file_syntax_error_is_a_finding(tmp_path):
     assert done.stdout.startswith("Q000100.toml:2:9: error file-syntax not valid TOML")
 
 
+def test_a_file_that_is_not_utf8_is_a_finding_with_position(tmp_path):
+    (tmp_path / "Q000100.toml").write_bytes(b'id = "Q000100"\ntitle = "caf\xe9"\n')
+    done = run_cli("Q000100.toml", cwd=tmp_path)
+    assert done.returncode == 1
+    assert done.stdout.startswith("Q000100.toml:2:13: error file-syntax the file is not UTF-8 (byte 0xe9)")
+
+
 def test_list_rules():
     done = run_cli("--list-rules")
     assert done.returncode == 0
@@ -187,3 +194,19 @@ def test_json_entries_are_fixed_as_json(tmp_path):
     run_cli("Q000100.json", "--fix", cwd=tmp_path)
     fixed = json.loads(path.read_text("utf-8"))
     assert fixed["title"] == "Delannoy" and fixed["terms"][2] == 13
+
+
+def test_a_run_imports_only_what_its_rules_need(work):
+    import subprocess
+    import sys
+
+    probe = ("import sys, contextlib, io\nfrom normform.cli import main\n"
+             "with contextlib.redirect_stdout(io.StringIO()):\n    main(sys.argv[1:])\n"
+             "print(sorted(m for m in ('normform.formula.parser', 'normform.refs.api', 'lark', 'jsonschema',"
+             " 'pylatexenc', 'difflib') if m in sys.modules))")
+    done = subprocess.run([sys.executable, "-c", probe, "lint", "Q000100.toml", "--select", "trailing-whitespace"],
+                          cwd=work, capture_output=True, text=True, timeout=60)
+    assert done.stdout.strip() == "[]", done.stdout + done.stderr
+    done = subprocess.run([sys.executable, "-c", probe, "lint", "--list-rules"], cwd=work, capture_output=True,
+                          text=True, timeout=60)
+    assert done.stdout.strip().splitlines()[-1] == "[]"

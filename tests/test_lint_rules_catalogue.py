@@ -55,3 +55,14 @@ def test_reference_cited_differently(fake_parser):
     assert [f.path for f in found] == ["Q000101.toml"]
     assert "Q000100 cites this work as: A. Penrith-Vale" in found[0].message
     assert slugs(BASE + a, "reference-cited-differently", others=[("Q000101.toml", OTHER + a)]) == []
+
+
+def test_duplicate_id_of_a_file_beside_the_linted_one(tmp_path):
+    from lint_support import run_cli
+
+    (tmp_path / "Q000100.toml").write_text(BASE, "utf-8")
+    (tmp_path / "Q000101.toml").write_text(BASE, "utf-8")     # holds id Q000100 as well
+    done = run_cli("Q000101.toml", "--select", "duplicate-id", cwd=tmp_path)
+    assert done.returncode == 1 and "id Q000100 is already used by Q000100.toml" in done.stdout
+    done = run_cli("Q000100.toml", "--select", "duplicate-id", cwd=tmp_path)
+    assert done.returncode == 0, done.stdout

@@ -109,3 +109,10 @@ def test_tex_in_text_with_fix():
     assert slugs(BASE.replace('"Test entry"', '"Numbers of Erdős type"'), "tex-in-text") == []
     # formulas and programs may hold backslashes and dollars
     assert slugs(BASE + 'formulas = ["a(n) = \\\\binom{2n}{n}"]\n', "tex-in-text") == []
+
+
+def test_empty_value():
+    found = findings(BASE.replace('"Test entry"', '"  "') + 'references = ["", "x"]\ncomments = [""]\n',
+                     select=["empty-value"])
+    assert [f.value_path for f in found] == [("title",), ("references", 0)]
+    assert slugs(BASE + 'references = ["x"]\n', "empty-value") == []

@@ -136,7 +136,8 @@ def test_formula_kind_mismatch(engine):
 # -- the real engines on handbook values -------------------------------------------
 
 # Values: DLMF Table 26.8.2 (Stirling numbers of the second kind), Table 26.8.1 (first kind),
-# Table 26.7.1 (Bell numbers), Table 26.9.1 (partitions p(n)), and DLMF §26.5 (Catalan numbers);
+# Table 26.7.1 (Bell numbers; their e.g.f. exp(e^x - 1) is in DLMF §26.7), Table 26.9.1 (partitions
+# p(n); the product g.f. is in DLMF §26.9), DLMF §26.5 (Catalan numbers), DLMF §26.6 (Motzkin numbers);
 # the rows are from memory and are cross-checked against sympy in ``test_handbook_rows``.
 HANDBOOK = [
     ("a(n) = S2(n,3)", 3, [1, 6, 25, 90, 301, 966, 3025, 9330, 28501, 86526]),
@@ -144,6 +145,9 @@ HANDBOOK = [
     ("a(n) = Bell(n)", 0, [1, 1, 2, 5, 15, 52, 203, 877, 4140, 21147, 115975, 678570]),
     ("a(n) = binomial(2n,n)/(n+1)", 0, [1, 1, 2, 5, 14, 42, 132, 429, 1430, 4862, 16796]),
     ("a(n) = a(n-1) + a(n-2), a(0) = 0, a(1) = 1", 0, [0, 1, 1, 2, 3, 5, 8, 13, 21, 34, 55, 89]),
+    ("G.f.: Product_{k>=1} 1/(1-x^k)", 0, [1, 1, 2, 3, 5, 7, 11, 15, 22, 30, 42, 56, 77, 101, 135]),
+    ("E.g.f.: exp(exp(x) - 1)", 0, [1, 1, 2, 5, 15, 52, 203, 877, 4140, 21147, 115975]),
+    ("a(n) = Sum_{k=0..[n/2]} binomial(n,2k)*C(k)", 0, [1, 1, 2, 4, 9, 21, 51, 127, 323, 835, 2188]),
 ]
 
 
@@ -157,6 +161,12 @@ def test_handbook_rows():
     assert rows[2] == [bell(n) for n in range(12)]
     assert rows[3] == [catalan(n) for n in range(11)]
     assert rows[4] == [fibonacci(n) for n in range(12)]
+    from sympy import binomial
+    from sympy.functions.combinatorial.numbers import partition
+
+    assert rows[5] == [partition(n) for n in range(15)]
+    assert rows[6] == [bell(n) for n in range(11)]
+    assert rows[7] == [sum(binomial(n, 2 * k) * catalan(k) for k in range(n // 2 + 1)) for n in range(11)]
 
 
 def _entry(formula, first, terms):
@@ -182,3 +192,60 @@ def test_real_parser_error_position():
     text = _entry("a(n) = (n + 1", 0, [1, 2, 3])
     (f,) = findings(text, select=["formula-syntax"])
     assert f.line == 5 and f.column >= text.splitlines()[4].index("(n") + 1
+
+
+@pytest.mark.parametrize("formula", ["a(n) = 2^(n-1) for n >= 1", "a(n) = 2*a(n-1), a(1) = 1"])
+def test_real_first_index_mismatch(formula):
+    # compositions of n: 2^(n-1) for n >= 1 (common practice)
+    need("normform.formula.check", "check_formula")
+    terms = [1, 2, 4, 8, 16, 32, 64, 128, 256, 512]
+    found = findings(_entry(formula, 0, terms), select=["first-index-mismatch", "formula-disagrees"])
+    assert [f.slug for f in found] == ["first-index-mismatch"]
+    assert found[0].fix.edits[0].text == "1"
+    assert slugs(_entry(formula, 1, terms), "first-index-mismatch", "formula-disagrees") == []
+
+
+def test_an_engine_crash_on_one_formula_does_not_hide_the_others(engine, monkeypatch):
+    from normform.lint.engine import Context, lint
+    from normform.lint.entry import parse_entry
+    from normform.lint.registry import select_rules
+    from normform.lint.settings import LintSettings
+
+    parse = services.parse_formula
+
+    def flaky(text):
+        if text == "boom":
+            raise RuntimeError("engine bug")
+        return parse(text)
+
+    monkeypatch.setattr(services, "parse_formula", flaky)
+    engine[FIB] = FakeFormula(FIB, lambda n: _fib(n + 1) + (n == 7))
+    ctx = Context(LintSettings())
+    found = lint([parse_entry("Q000100.toml", BASE + f'formulas = ["boom", "{FIB}"]\n')],
+                 select_rules(["formulas"]), ctx)
+    assert [f.slug for f in found] == ["formula-disagrees"]
+    assert "engine bug" in ctx.failed["formula-engine"]
+
+
+@pytest.mark.parametrize("path", ["Q000100.toml", "Q000100.json"])
+def test_first_index_fix_adds_the_key_when_absent(engine, path):
+    import json
+    import tomllib
+
+    from normform.lint.engine import Context, lint
+    from normform.lint.entry import parse_entry
+    from normform.lint.fixing import fix_text
+    from normform.lint.registry import select_rules
+    from normform.lint.settings import LintSettings
+
+    engine[FIB] = FakeFormula(FIB, _fib)
+    doc = {"id": "Q000100", "title": "t", "terms": [1, 1, 2, 3, 5, 8, 13, 21, 34, 55], "formulas": [FIB]}
+    text = json.dumps(doc) if path.endswith(".json") else (
+        'id = "Q000100"\ntitle = "t"\nterms = [1, 1, 2, 3, 5, 8, 13, 21, 34, 55]  # F(1)...\n'
+        f'formulas = ["{FIB}"]\n')
+    rules = select_rules(["first-index-mismatch"])
+    entry = parse_entry(path, text)
+    fixed, count = fix_text(entry, lambda e: lint([e], rules, Context(LintSettings())))
+    data = json.loads(fixed) if path.endswith(".json") else tomllib.loads(fixed)
+    assert count == 1 and data["first_index"] == 1 and data["terms"] == doc["terms"]
+    assert fix_text(parse_entry(path, fixed), lambda e: lint([e], rules, Context(LintSettings())))[1] == 0

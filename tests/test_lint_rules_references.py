@@ -130,3 +130,14 @@ def test_reference_house_style_real_formatter():
     got = slugs(refs(line), "reference-house-style")
     low = (ref.confidence or 0) < LintSettings().style_confidence
     assert got == ([] if styled == line or low else ["reference-house-style"])
+
+
+def test_reference_duplicate_real_parser_by_doi():
+    need("normform.refs.api", "parse_reference")
+    need("normform.ids.find")
+    a = "H. Quillby, Lattice paths, Fibonacci Quart. 41 (2003), 112-130. doi:10.5555/QSEM.1"
+    b = "Quillby, H.: Lattice paths. Fibonacci Quart. 41, 112-130 (2003). https://doi.org/10.5555/qsem.1"
+    (f,) = findings(refs(a, b), select=["reference-duplicate"])
+    assert f.value_path == ("references", 1)
+    c = "H. Quillby, Lattice paths, Fibonacci Quart. 41 (2003), 112-130. doi:10.5555/qsem.2"
+    assert slugs(refs(a, c), "reference-duplicate") == []

@@ -55,3 +55,13 @@ def test_results_carry_rules_regions_and_fixes(demo_log):
     assert text[region["startLine"] - 1][region["startColumn"] - 1:region["endColumn"] - 1] == \
         '"Central Delannoy numbers\\u0007"'
     assert fix["insertedContent"]["text"] == '"Central Delannoy numbers"'
+
+
+def test_syntax_errors_and_json_entries_give_valid_sarif(validator, tmp_path):
+    (tmp_path / "Q000100.toml").write_text('id = "Q000100"\ntitle = \n', "utf-8")
+    (tmp_path / "Q000101.json").write_text('{"id": "Q000101", "title": "t ", "terms": [1, "2"]}', "utf-8")
+    done = run_cli(".", "--format", "sarif", cwd=tmp_path)
+    log = json.loads(done.stdout)
+    assert not list(validator.iter_errors(log))
+    rules = sorted(r["ruleId"] for r in log["runs"][0]["results"])
+    assert rules == ["file-syntax", "term-not-integer", "too-few-terms", "trailing-whitespace"]

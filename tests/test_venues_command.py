@@ -206,3 +206,11 @@ def test_match_command_bibtex_and_threshold(tmp_path, capsys):
     assert len(re.findall(r"^@", text, re.M)) == 3 and "10.9999/qsem.1989.1" in text   # every line kept, line 1 enriched
     assert main(["match", str(tmp_path / "lines.txt"), "--against", str(tmp_path / "lib.bib"), "--threshold", "2"]) == 2
     assert main(["match", str(tmp_path / "lines.txt"), "--against", str(tmp_path / "missing.bib")]) == 2
+
+
+def test_csl_json_array_input(tmp_path, capsys):
+    src = tmp_path / "refs.json"
+    src.write_text(json.dumps(LINES[:2], indent=1), "utf-8")
+    assert main(["venues", str(src), "--to", "abbreviated"]) == 0
+    items = json.loads(capsys.readouterr().out)
+    assert [i["container-title"] for i in items] == ["Trans. Am. Math. Soc.", "Trans. Am. Math. Soc."]

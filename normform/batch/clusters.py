@@ -15,6 +15,7 @@ member with the highest confidence, then most fields, then the first line.
 
 from __future__ import annotations
 
+import collections
 import itertools
 import sqlite3
 from typing import Iterator
@@ -46,24 +47,35 @@ class UnionFind:
             self.parent.setdefault(lo, lo)
 
 
-def _blocks(db: sqlite3.Connection, columns: str, where: str) -> Iterator[list[tuple]]:
-    cur = db.execute(f"SELECT {columns}, seq, title, author, year FROM keys WHERE {where} "
-                     f"ORDER BY {columns}, seq")
-    width = len(columns.split(","))
-    for _, group in itertools.groupby(cur, key=lambda row: row[:width]):
-        rows = list(group)
-        if len(rows) > 1:
-            yield [row[width:] for row in rows]
+def _block_pairs(db: sqlite3.Connection, column: str, where: str) -> Iterator[tuple[tuple, tuple]]:
+    """Candidate pairs ``((seq, title, author, year), ...)`` within blocks of equal ``column``.
+
+    Rows arrive sorted by (key, title), so memory is bounded by ``BIG_BLOCK``:
+    a small block yields all its pairs, a big one a sliding window of
+    ``WINDOW`` title-neighbours.
+    """
+    cur = db.execute(f"SELECT {column}, seq, title, author, year FROM keys WHERE {where} "
+                     f"ORDER BY {column}, title, seq")
+    for _, group in itertools.groupby(cur, key=lambda row: row[0]):
+        buf = []
+        for row in group:
+            buf.append(row[1:])
+            if len(buf) > BIG_BLOCK:
+                break
+        if len(buf) <= BIG_BLOCK:
+            yield from itertools.combinations(buf, 2)
+            continue
+        window: collections.deque = collections.deque(maxlen=WINDOW)
+        for row in itertools.chain(buf, (r[1:] for r in group)):
+            for other in window:
+                yield other, row
+            window.append(row)
 
 
-def _pairs(rows: list[tuple]) -> Iterator[tuple[tuple, tuple]]:
-    if len(rows) <= BIG_BLOCK:
-        yield from itertools.combinations(rows, 2)
-        return
-    rows = sorted(rows, key=lambda r: r[1])
-    for i, row in enumerate(rows):
-        for other in rows[i + 1:i + 1 + WINDOW]:
-            yield row, other
+def _same_key_runs(cur) -> Iterator[Iterator[int]]:
+    """Runs of record numbers sharing the first column of ``cur`` (sorted by it)."""
+    for _, group in itertools.groupby(cur, key=lambda row: row[0]):
+        yield (row[1] for row in group)
 
 
 def _numbers(title: str) -> list[str]:
@@ -94,45 +106,45 @@ def find(db: sqlite3.Connection, similarity: float = 90.0) -> list[list[int]]:
     """Clusters of two or more record numbers, each sorted, ordered by first member."""
     uf = UnionFind()
     # 1. same first author: similar titles, compatible years
-    for rows in _blocks(db, "author", "author != '' AND title != ''"):
-        for (sa, ta, _, ya), (sb, tb, _, yb) in _pairs(rows):
-            if _years_agree(ya, yb) and similar_titles(ta, tb, similarity):
-                uf.union(sa, sb)
+    for (sa, ta, _, ya), (sb, tb, _, yb) in _block_pairs(db, "author", "author != '' AND title != ''"):
+        if _years_agree(ya, yb) and similar_titles(ta, tb, similarity):
+            uf.union(sa, sb)
     # 2. same title start: similar titles, compatible years, compatible authors
-    for rows in _blocks(db, "prefix", "prefix != ''"):
-        for (sa, ta, aa, ya), (sb, tb, ab, yb) in _pairs(rows):
-            if not (_years_agree(ya, yb) and similar_titles(ta, tb, similarity)):
-                continue
-            authors_ok = not aa or not ab or fuzz.ratio(aa, ab, score_cutoff=70)
-            # a long, near-identical title in the same year outweighs a garbled author
-            long_twin = (ya is not None and ya == yb and len(ta.split()) >= 5
-                         and fuzz.ratio(ta, tb, score_cutoff=97))
-            if authors_ok or long_twin:
-                uf.union(sa, sb)
+    for (sa, ta, aa, ya), (sb, tb, ab, yb) in _block_pairs(db, "prefix", "prefix != ''"):
+        if not (_years_agree(ya, yb) and similar_titles(ta, tb, similarity)):
+            continue
+        authors_ok = not aa or not ab or fuzz.ratio(aa, ab, score_cutoff=70)
+        # a long, near-identical title in the same year outweighs a garbled author
+        long_twin = (ya is not None and ya == yb and len(ta.split()) >= 5
+                     and fuzz.ratio(ta, tb, score_cutoff=97))
+        if authors_ok or long_twin:
+            uf.union(sa, sb)
     # 3. a shared valid DOI / arXiv / MR / Zbl identifier
-    for rows in _id_blocks(db):
-        for seq in rows[1:]:
-            uf.union(rows[0], seq)
+    for run in _same_key_runs(db.execute("SELECT ident, seq FROM ids ORDER BY ident, seq")):
+        first = next(run)
+        for seq in run:
+            uf.union(first, seq)
     # 4. the same line typed twice (after folding)
-    for rows in _blocks(db, "textkey", "textkey != ''"):
-        for row in rows[1:]:
-            uf.union(rows[0][0], row[0])
+    for run in _same_key_runs(db.execute("SELECT textkey, seq FROM keys WHERE textkey != '' "
+                                         "ORDER BY textkey, seq")):
+        first = next(run)
+        for seq in run:
+            uf.union(first, seq)
     groups: dict[int, list[int]] = {}
     for seq in list(uf.parent):
         groups.setdefault(uf.find(seq), []).append(seq)
     return sorted((sorted(g) for g in groups.values() if len(g) > 1), key=lambda g: g[0])
 
 
-def _id_blocks(db: sqlite3.Connection) -> Iterator[list[int]]:
-    cur = db.execute("SELECT ident, seq FROM ids ORDER BY ident, seq")
-    for _, group in itertools.groupby(cur, key=lambda row: row[0]):
-        seqs = [row[1] for row in group]
-        if len(seqs) > 1:
-            yield seqs
-
-
 def canonical(db: sqlite3.Connection, members: list[int]) -> int:
-    marks = ",".join("?" * len(members))
-    rows = db.execute(f"SELECT seq, conf, nfields FROM keys WHERE seq IN ({marks})", members).fetchall()
-    best = max(rows, key=lambda r: (r[1] or 0.0, r[2], -r[0]))
-    return best[0]
+    """Highest confidence, then most fields, then the first line."""
+    best = None
+    for start in range(0, len(members), 500):   # stay under SQLite's bound-variable limit
+        part = members[start:start + 500]
+        marks = ",".join("?" * len(part))
+        for seq, conf, nfields in db.execute(
+                f"SELECT seq, conf, nfields FROM keys WHERE seq IN ({marks})", part):
+            rank = (conf or 0.0, nfields, -seq)
+            if best is None or rank > best[0]:
+                best = (rank, seq)
+    return best[1]

@@ -40,11 +40,26 @@ def _ordered(submit, chunks: Iterable[Chunk], window: int, result) -> Iterator[t
         yield done, result(future)
 
 
-def _ignore_interrupt() -> None:
-    """Workers leave Ctrl-C to the main process, which checkpoints and stops them."""
+def _worker_init() -> None:
+    """Workers leave Ctrl-C to the main process, and die with it.
+
+    A main process killed outright (SIGKILL) cannot stop its pool; on Linux
+    the kernel then sends each worker SIGTERM (``PR_SET_PDEATHSIG``), so no
+    orphan keeps waiting on a queue nobody writes to.
+    """
     import signal
 
     signal.signal(signal.SIGINT, signal.SIG_IGN)
+    try:
+        import ctypes
+
+        libc = ctypes.CDLL(None, use_errno=True)
+        PR_SET_PDEATHSIG = 1
+        libc.prctl(PR_SET_PDEATHSIG, signal.SIGTERM)
+        if os.getppid() == 1:        # the main process died before prctl took effect
+            os._exit(1)
+    except (OSError, AttributeError):  # pragma: no cover - not Linux
+        pass
 
 
 def run_local(chunks: Iterable[Chunk], settings: Settings, jobs: int) -> Iterator[tuple[Chunk, list]]:
@@ -57,7 +72,7 @@ def run_local(chunks: Iterable[Chunk], settings: Settings, jobs: int) -> Iterato
 
     # fork: workers start fast and inherit what is already imported.
     context = multiprocessing.get_context("fork")
-    executor = ProcessPoolExecutor(max_workers=jobs, mp_context=context, initializer=_ignore_interrupt)
+    executor = ProcessPoolExecutor(max_workers=jobs, mp_context=context, initializer=_worker_init)
     try:
         yield from _ordered(lambda c: executor.submit(process_chunk, c[0], c[1], settings),
                             chunks, 3 * jobs, lambda f: f.result())

@@ -86,8 +86,8 @@ def _copy(handle, path: Path) -> None:
                 handle.write(block)
 
 
-def _cluster_sections(handle, clusters: Path) -> dict[int, int]:
-    """Write one section per cluster; return record number -> cluster number."""
+def _cluster_sections(handle, clusters: Path, row_limit: int) -> dict[int, int]:
+    """Write one section per cluster; return record number -> cluster number (for table rows)."""
     where: dict[int, int] = {}
     if not clusters.exists():
         return where
@@ -102,7 +102,8 @@ def _cluster_sections(handle, clusters: Path) -> dict[int, int]:
                          '<table><thead><tr><th scope="col">origin</th><th scope="col">as typed</th>'
                          '<th scope="col">cleaned</th><th scope="col">confidence</th></tr></thead><tbody>')
             for m in cluster["members"]:
-                where[m["seq"]] = n
+                if m["seq"] <= row_limit:
+                    where[m["seq"]] = n
                 left, right = diff_html(m["text"], m["house"])
                 conf = "–" if m["confidence"] is None else f'{m["confidence"]:.2f}'
                 origin = f'{m["file"]}:{m["line"]}' if m["line"] is not None else m["file"]
@@ -160,7 +161,7 @@ def write(path: Path, summary: dict, *, rows: Path, formulas: Path, clusters: Pa
             out.write("</tbody></table></section>")
         out.write(f'<section id="clusters" aria-label="Duplicate clusters"><h2>Duplicate clusters '
                   f'({summary["clusters"]:,})</h2>')
-        where = _cluster_sections(out, clusters)
+        where = _cluster_sections(out, clusters, row_limit)
         out.write("</section></main>")
         # record -> cluster, so the table can link each row to its cluster page
         out.write('<script type="application/json" id="cluster-of">'

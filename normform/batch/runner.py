@@ -140,6 +140,7 @@ def clean(paths_in: list[str], outdir: str | Path, *, threshold: float = 0.9, jo
         results = engines.run_dask(chunks, settings, scheduler)
     else:
         results = engines.run_local(chunks, settings, jobs or engines.default_jobs())
+    previous = _terminate_as_interrupt()
     try:
         for (items, _), chunk_results in results:
             store.commit_chunk(chunk_results, len(items), totals,
@@ -150,11 +151,34 @@ def clean(paths_in: list[str], outdir: str | Path, *, threshold: float = 0.9, jo
         close = getattr(results, "close", None)
         if close:
             close()
+        _restore(previous)
 
     seconds = earlier + time.monotonic() - started
     result = _finish(store, paths, read, counted["refs"], totals, settings, similarity, seconds, err, quiet)
     result.resumed = resumed
     return result
+
+
+def _terminate_as_interrupt():
+    """SIGTERM stops a run like Ctrl-C does: workers shut down, checkpoint kept."""
+    import signal
+    import threading
+
+    if threading.current_thread() is not threading.main_thread():
+        return None
+
+    def handler(signum, frame):
+        raise KeyboardInterrupt
+
+    return signal.signal(signal.SIGTERM, handler)
+
+
+def _restore(previous) -> None:
+    import signal
+    import threading
+
+    if previous is not None and threading.current_thread() is threading.main_thread():
+        signal.signal(signal.SIGTERM, previous)
 
 
 def _finish(store: Store, paths: list[Path], read: inputs.ReadStats, refs: int, totals: dict,
@@ -164,8 +188,8 @@ def _finish(store: Store, paths: list[Path], read: inputs.ReadStats, refs: int, 
     store.close_parts()
     work, outdir = store.work, store.outdir
     db = store.db
-    db.execute("CREATE INDEX IF NOT EXISTS keys_a ON keys(author, seq)")
-    db.execute("CREATE INDEX IF NOT EXISTS keys_p ON keys(prefix, seq)")
+    db.execute("CREATE INDEX IF NOT EXISTS keys_a ON keys(author, title, seq)")
+    db.execute("CREATE INDEX IF NOT EXISTS keys_p ON keys(prefix, title, seq)")
     db.execute("CREATE INDEX IF NOT EXISTS ids_i ON ids(ident, seq)")
     db.execute("CREATE INDEX IF NOT EXISTS keys_t ON keys(textkey, seq)")
     groups = clustering.find(db, similarity)
@@ -180,16 +204,16 @@ def _finish(store: Store, paths: list[Path], read: inputs.ReadStats, refs: int, 
         for number, group in enumerate(groups, start=1):
             clustered += len(group)
             best = member(clustering.canonical(db, group))
-            members = []
-            for seq in group:
+            canon = {k: best[k] for k in ("id", "seq", "origin", "text", "house", "csl")}
+            # written member by member (keys in dumps' sorted order): a huge cluster stays out of memory
+            handle.write(f'{{"canonical":{dumps(canon)},"cluster":{number},"members":[')
+            for i, seq in enumerate(group):
                 rec = member(seq)
-                members.append({"id": rec["id"], "seq": seq, "file": rec["origin"]["file"],
-                                "line": rec["origin"]["line"], "entry": rec["origin"]["entry"],
-                                "text": rec["text"], "house": rec["house"],
-                                "confidence": rec["confidence"]})
-            handle.write(dumps({"cluster": number, "size": len(group),
-                                "canonical": {k: best[k] for k in ("id", "seq", "origin", "text", "house", "csl")},
-                                "members": members}) + "\n")
+                handle.write(("," if i else "") + dumps(
+                    {"id": rec["id"], "seq": seq, "file": rec["origin"]["file"],
+                     "line": rec["origin"]["line"], "entry": rec["origin"]["entry"],
+                     "text": rec["text"], "house": rec["house"], "confidence": rec["confidence"]}))
+            handle.write(f'],"size":{len(group)}}}\n')
 
     store.close_reader()
     lines_in = read.lines

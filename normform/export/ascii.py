@@ -15,8 +15,13 @@ REL_TEXT = {"=": "=", "!=": "!=", "<": "<", ">": ">", "<=": "<=", ">=": ">=", "~
 CONST_TEXT = {"pi": "pi", "e": "e", "phi": "phi", "gamma": "gamma", "i": "i", "infinity": "inf"}
 
 
+_ATOMIC = (A.Symbol, A.Constant, A.Call, A.SeqRef, A.BigOp, A.Decimal)
+
+
 def level(node: A.Node) -> int:
     """Binding level of ``node`` as the canonical syntax reads it."""
+    if isinstance(node, _ATOMIC):
+        return ATOM
     if isinstance(node, A.Relation):
         return REL
     if isinstance(node, A.BinOp):

@@ -45,6 +45,7 @@ def encode_verbatim(text: str, ascii: bool = False) -> str:
     """JSON-style escaping that survives BibTeX's brace counting and blank folding."""
     out = json.dumps(text, ensure_ascii=ascii)[1:-1]
     out = out.replace("{", "\\u007b").replace("}", "\\u007d")
+    out = re.sub(r"[^\S ]", lambda m: f"\\u{ord(m.group()):04x}", out)  # blanks BibTeX would fold
     return re.sub(r" (?= )|^ | $", r"\\u0020", out)
 
 
@@ -64,7 +65,10 @@ class BibtexExporter(Exporter):
         out, pos = [], 0
         for start, end in capitals.intervals(title, hints):
             out.append(self.tex(title[pos:start]))
-            out.append("{" + self.tex(title[start:end]) + "}")
+            inner = self.tex(title[start:end])
+            # A group opening with a command is a BibTeX "special character", not a
+            # protection: an empty group in front keeps it a protection.
+            out.append("{" + ("{}" if inner.startswith("\\") else "") + inner + "}")
             pos = end
         out.append(self.tex(title[pos:]))
         return "".join(out)

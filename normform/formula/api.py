@@ -28,8 +28,7 @@ class Formula:
     or a tuple for tables) to its value; ``note`` is trailing attribution text.
     """
 
-    __slots__ = ("text", "root", "kind", "label", "lhs", "rhs", "conditions", "initial", "note",
-                 "sequence_name")
+    __slots__ = ("text", "root", "lhs", "rhs", "conditions", "note", "_kind", "_label", "_initial")
 
     def __init__(self, text: str, root: A.Statement):
         self.text = text
@@ -42,10 +41,31 @@ class Formula:
             self.lhs, self.rhs = None, body
         self.conditions = root.conditions
         self.note = root.note
-        self.sequence_name = _sequence_name(self.lhs)
-        self.label = root.label or _gf_label(self.lhs)
-        self.kind = _kind(root, self.lhs, self.rhs, self.label)
-        self.initial = _initial(root)
+        self._kind = self._label = self._initial = None
+
+    # computed on first use: parsing and rendering do not pay for them
+    @property
+    def label(self) -> str | None:
+        if self._label is None:
+            self._label = self.root.label or _gf_label(self.lhs) or ""
+        return self._label or None
+
+    @property
+    def kind(self) -> str:
+        if self._kind is None:
+            self._kind = _kind(self.root, self.lhs, self.rhs, self.label)
+        return self._kind
+
+    @property
+    def initial(self) -> dict:
+        if self._initial is None:
+            self._initial = _initial(self.root)
+        return self._initial
+
+    @property
+    def sequence_name(self) -> str | None:
+        """Name of the sequence the left side defines (``a`` in ``a(n) = ...``), if any."""
+        return _sequence_name(self.lhs)
 
     # -- structure
     def __eq__(self, other: object) -> bool:

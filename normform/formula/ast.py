@@ -29,6 +29,9 @@ def line_col(text: str, offset: int) -> tuple[int, int]:
     return line, offset - start + 1
 
 
+_CHILD_FIELDS: dict[type, tuple[str, ...]] = {}
+
+
 def _span() -> Any:
     return field(default=NO_SPAN, compare=False, repr=False, kw_only=True)
 
@@ -39,10 +42,12 @@ class Node:
 
     def children(self) -> Iterator["Node"]:
         """Direct child nodes, in source order."""
-        for f in fields(self):
-            if f.name == "span" or not f.compare:
-                continue
-            value = getattr(self, f.name)
+        names = _CHILD_FIELDS.get(type(self))
+        if names is None:
+            names = _CHILD_FIELDS[type(self)] = tuple(
+                f.name for f in fields(self) if f.name != "span" and f.compare)
+        for name in names:
+            value = getattr(self, name)
             if isinstance(value, Node):
                 yield value
             elif isinstance(value, tuple):
@@ -247,14 +252,19 @@ class Statement(Node):
 
 # ---------------------------------------------------------------- visitor ---
 
+_DISPATCH: dict[tuple[type, type], Any] = {}
+
+
 class Visitor:
     """Dispatch ``visit(node)`` to ``visit_<ClassName>(node)``; ``generic_visit`` otherwise."""
 
     def visit(self, node: Node) -> Any:
-        method = getattr(self, "visit_" + type(node).__name__, None)
-        if method is None:
-            return self.generic_visit(node)
-        return method(node)
+        key = (type(self), type(node))
+        fn = _DISPATCH.get(key)
+        if fn is None:
+            fn = getattr(type(self), "visit_" + type(node).__name__, None) or type(self).generic_visit
+            _DISPATCH[key] = fn
+        return fn(self, node)
 
     def generic_visit(self, node: Node) -> Any:
         raise NotImplementedError(f"{type(self).__name__} cannot handle {type(node).__name__}")

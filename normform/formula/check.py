@@ -17,7 +17,6 @@ bits per term, seconds per check); no input makes this hang or raise.
 from __future__ import annotations
 
 import decimal as D
-import time
 from dataclasses import asdict, dataclass
 from fractions import Fraction
 from typing import Any, Mapping, Sequence
@@ -64,7 +63,8 @@ class Verdict:
         """One line of plain words."""
         parts = [self.label]
         if self.status == "disagrees" and self.expected is not None:
-            parts.append(f"at n = {self.index}: listed {_short(self.expected)}, formula gives {_short(self.computed)}")
+            where = f"term {self.index}" if self.kind == "table" else f"n = {self.index}"
+            parts.append(f"at {where}: listed {_short(self.expected)}, formula gives {_short(self.computed)}")
         if self.compared:
             parts.append(f"{self.compared} term{'s' if self.compared != 1 else ''} compared")
         if self.initial_from_terms:
@@ -192,8 +192,18 @@ def _check(formula: Any, terms: Any, first_index: int, initial: Any, kind: str |
         verdict = _check_series(formula, plan, listed, what, kind is not None or plan.gf_label is not None, limits)
     elif what == "recurrence":
         verdict = _check_recurrence(plan, listed, initial, limits)
+    elif what == "table":
+        verdict = _check_table(plan, listed, limits)
     else:
         verdict = _check_closed(plan, listed, limits)
+        if plan.also is not None and verdict.status == "agrees":
+            # an identity: the left side must give the terms too
+            from dataclasses import replace as _replace
+            left = _check_closed(_replace(plan, expr=plan.also, also=None), listed, limits)
+            if left.status != "agrees":
+                verdict = _replace(left, reason="; ".join(r for r in ("left side", left.reason) if r))
+            else:
+                verdict = _replace(verdict, reason="; ".join(r for r in (verdict.reason, "both sides checked") if r))
     from dataclasses import replace
     reason = "; ".join(r for r in (verdict.reason, note) if r)
     return replace(verdict, formula=text, reason=reason)
@@ -254,6 +264,30 @@ def _inexact(listed: dict[int, Number], computed: dict[int, Number], skip: set[i
                                          "to 25 digits but not exactly computable", kind)
 
 
+def _check_table(plan: T.Plan, listed: dict[int, Number], limits: R.Limits) -> Verdict:
+    """T(n,k) read by rows: the listed terms are the flattened rows from row ``first_index``."""
+    indices = list(listed)
+    first = indices[0]
+    if indices != list(range(first, first + len(indices))):
+        return Verdict("cannot-check", "a table needs consecutive listed terms", kind="table")
+    code = T.compile_exact(plan.expr)
+    compared = 0
+    for (n, k), want in zip(T.table_cells(plan, first, len(indices)), listed.values()):
+        try:
+            got = code({plan.var: n, plan.var2: k})
+        except ZeroDivisionError:
+            return Verdict("cannot-check", f"division by zero at ({n}, {k})", compared=compared, kind="table")
+        except (T.CannotCompute, R.RecurrenceError) as exc:
+            return Verdict("cannot-check", exc.reason, compared=compared, kind="table")
+        compared += 1
+        if got != want:
+            shown = str(got) if isinstance(got, T.Inexact) else got
+            return Verdict("disagrees", f"the table read by rows; term {first + compared - 1} is "
+                           f"{plan.name}({n},{k})", index=first + compared - 1, expected=want, computed=shown,
+                           compared=compared, kind="table")
+    return Verdict("agrees", f"the table read by rows from row {first}", compared=compared, kind="table")
+
+
 def _stop(listed: dict[int, Number], computed: dict[int, Number], skip: set[int], reason: str, kind: str,
           **extra: Any) -> Verdict:
     """A computation stopped early: a disagreement found so far still counts, else cannot-check."""
@@ -293,20 +327,21 @@ def _check_recurrence(plan: T.Plan, listed: dict[int, Number], initial: Any, lim
             except R.RecurrenceError as exc2:
                 return _stop_rec(listed, first, exc2)
         else:
-            return _stop_rec(listed, first, exc)
+            return _stop_rec(listed, first, exc, set(given or ()) - set(rec.initial))
     except R.RecurrenceError as exc:
-        return _stop_rec(listed, first, exc)
+        return _stop_rec(listed, first, exc, set(given or ()) - set(rec.initial))
     computed = {first + i: v for i, v in enumerate(values)}
-    skip = set(indices[:used])
+    # the caller's initial values are inputs, not claims of the formula: not compared
+    skip = set(indices[:used]) | (set(given or ()) - set(rec.initial))
     if used >= len(indices):
         return Verdict("cannot-check", "every listed term is needed as an initial value", kind="recurrence",
                        initial_from_terms=used)
     return _compare(listed, computed, "recurrence", skip, initial_from_terms=used)
 
 
-def _stop_rec(listed: dict[int, Number], first: int, exc: R.RecurrenceError) -> Verdict:
+def _stop_rec(listed: dict[int, Number], first: int, exc: R.RecurrenceError, skip: set[int] = frozenset()) -> Verdict:
     computed = {first + i: v for i, v in enumerate(exc.partial)}
-    return _stop(listed, computed, set(), exc.reason, "recurrence")
+    return _stop(listed, computed, set(skip), exc.reason, "recurrence")
 
 
 def _check_series(formula: Any, plan: T.Plan, listed: dict[int, Number], kind: str, labelled: bool,

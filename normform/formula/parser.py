@@ -25,22 +25,179 @@ MAX_DEPTH = 120
 """Deepest accepted nesting: brackets in the text and levels of the tree."""
 
 _parser = None
+_builder: "Any" = None
+# ids of built nodes that still contain raw placeholders (names to resolve, applications,
+# sums...): the resolver rebuilds only those paths and keeps every clean subtree as it is.
+_DIRTY: set[int] = set()
 
 
 def _get_parser():
-    """Build the LALR parser once per process (``import normform`` stays cheap)."""
-    global _parser
+    """Build the parser once per process (``import normform`` stays cheap)."""
+    global _parser, _builder
     if _parser is None:
         import lark
 
         from normform.resources import grammar_text
 
-        opts = dict(parser="lalr", lexer="basic", transformer=_Build(), maybe_placeholders=False)
+        _builder = _Build()
+        opts = dict(parser="lalr", lexer="basic", transformer=_builder, maybe_placeholders=False)
         try:
-            _parser = lark.Lark(grammar_text("formula.lark"), cache=True, **opts)
+            larkp = lark.Lark(grammar_text("formula.lark"), cache=True, **opts)
         except Exception:  # cache directory not writable, etc.
-            _parser = lark.Lark(grammar_text("formula.lark"), **opts)
+            larkp = lark.Lark(grammar_text("formula.lark"), **opts)
+        try:
+            _parser = _TableDriver(larkp)
+        except Exception:  # lark internals moved: use lark's own driver (same tables, slower)
+            _parser = larkp
     return _parser
+
+
+class _Tok:
+    """A lexer token: the attributes lark's Token offers that the callbacks use."""
+
+    __slots__ = ("type", "value", "start_pos", "end_pos")
+
+    def __init__(self, type_: str, value: str, start: int, end: int):
+        self.type, self.value, self.start_pos, self.end_pos = type_, value, start, end
+
+    def __str__(self) -> str:
+        return self.value
+
+    def __repr__(self) -> str:
+        return f"Token({self.type!r}, {self.value!r})"
+
+
+class _SyntaxError(Exception):
+    """Raised by the table driver; turned into a FormulaError by parse_statement."""
+
+    def __init__(self, offset: int, text: str, expected: set[str], end: bool = False, char: bool = False):
+        super().__init__(text)
+        self.offset, self.text, self.expected, self.end, self.char = offset, text, expected, end, char
+
+
+def _passthrough(rule) -> int | None:
+    """Index of the only kept child of an inlined (``?``) rule without alias, else None:
+    such a reduction needs no callback (lark's would filter tokens and return that child)."""
+    opts = rule.options
+    if not opts.expand1 or rule.alias is not None or opts.keep_all_tokens:
+        return None
+    kept = []
+    for i, sym in enumerate(rule.expansion):
+        if sym.is_term:
+            if not sym.filter_out:
+                kept.append(i)
+        elif sym.name.startswith("_"):
+            return None  # its children would be spliced in
+        else:
+            kept.append(i)
+    return kept[0] if len(kept) == 1 else None
+
+
+class _TableDriver:
+    """A small LALR(1) driver over lark's own parse tables, lexer patterns and rule
+    callbacks for this grammar. Same tables and tree as ``lark.Lark.parse``, without
+    its per-token bookkeeping (line counters, interactive-parser hooks): several
+    times faster on short formulas. Tests compare both drivers."""
+
+    def __init__(self, larkp):
+        from lark.parsers.lalr_analysis import Shift
+
+        self.lark = larkp
+        table = larkp.parser.parser.parser.parse_table
+        callbacks = larkp.parser.parser.parser.callbacks
+        states: dict[int, dict[str, tuple]] = {}
+        for state, actions in table.states.items():
+            row = {}
+            for sym, (action, arg) in actions.items():
+                if action is Shift:
+                    row[sym] = (True, arg)
+                else:
+                    row[sym] = (False, (len(arg.expansion), arg.origin.name, callbacks[arg], _passthrough(arg)))
+            states[state] = row
+        self.states = states
+        self.start = table.start_states["start"]
+        self.end = table.end_states["start"]
+        lexer = larkp.parser.lexer
+        scanner = lexer.scanner  # builds the compiled patterns
+        self.mres = [m for m in scanner._mres]
+        self.ignore = set(lexer.ignore_types)
+        # keywords lexed as NAME are re-typed (lark does this with a callback and a regex;
+        # a dict of the same keyword strings is quicker)
+        self.keywords: dict[str, dict[str, str]] = {}
+        for typ, callback in lexer.callback.items():
+            terms = callback.scanner.terminals
+            if not all(t.pattern.type == "str" for t in terms):
+                raise ValueError("unexpected lexer callback")
+            self.keywords[typ] = {t.pattern.value: t.name for t in terms}
+        # one pass over the text: lark's token patterns, then a catch-all for a bad character
+        if len(self.mres) != 1:
+            raise ValueError("unexpected lexer layout")
+        import re
+
+        self.big = re.compile(f"{self.mres[0].pattern}|(?P<_BAD_>[\\s\\S])", self.mres[0].flags)
+        self.terminal_names = set(lexer.terminals_by_name)
+
+    def tokens(self, text: str) -> tuple[list[_Tok], int | None]:
+        """All tokens, and the offset of an unreadable character (None if none)."""
+        out: list[_Tok] = []
+        ignore, keywords = self.ignore, self.keywords
+        bad = None
+        for m in self.big.finditer(text):
+            typ = m.lastgroup
+            if typ in ignore:
+                continue
+            if typ == "_BAD_":
+                bad = m.start()
+                break
+            value = m.group()
+            kw = keywords.get(typ)
+            if kw is not None:
+                typ = kw.get(value, typ)
+            out.append(_Tok(typ, value, m.start(), m.end()))
+        end = len(text) if bad is None else bad
+        out.append(_Tok("$BAD" if bad is not None else "$END", "", end, end))
+        return out, bad
+
+    def parse(self, text: str):
+        states = self.states
+        stack = [self.start]
+        values: list = []
+        toks, bad = self.tokens(text)
+        row = states[self.start]
+        for tok in toks:
+            typ = tok.type
+            while True:
+                act = row.get(typ)
+                if act is None:
+                    expected = {k for k in row if k.isupper() or k.startswith("__ANON")}
+                    if typ == "$BAD":  # an unreadable character: say what this state accepts
+                        raise _SyntaxError(bad, text[bad:bad + 1], expected, char=True)
+                    raise _SyntaxError(tok.start_pos, tok.value, expected, end=typ == "$END")
+                if act[0]:
+                    stack.append(act[1])
+                    row = states[act[1]]
+                    values.append(tok)
+                    break
+                size, origin, callback, keep = act[1]
+                if keep is not None:  # `?rule` with one kept child: the child is the value
+                    value = values[keep - size]
+                    del values[-size:]
+                    del stack[-size:]
+                    values.append(value)
+                else:
+                    if size:
+                        children = values[-size:]
+                        del values[-size:]
+                        del stack[-size:]
+                    else:
+                        children = []
+                    values.append(callback(children))
+                state = states[stack[-1]][origin][1]
+                stack.append(state)
+                row = states[state]
+                if state == self.end and typ == "$END":
+                    return values[-1]
+        raise AssertionError("parser stopped before the end")  # pragma: no cover
 
 
 # ------------------------------------------------------------ raw nodes -----
@@ -126,6 +283,11 @@ class _Seg:
     span: A.Span
 
 
+def _t(tok: Any) -> str:
+    """Text of a lark token (plain lark tokens are str; lark-cython tokens are not)."""
+    return tok.value
+
+
 def _sp(x: Any) -> A.Span:
     span = getattr(x, "span", None)
     if span is not None:
@@ -137,9 +299,21 @@ def _sp(x: Any) -> A.Span:
 
 
 def _join(*items: Any) -> A.Span:
-    spans = [_sp(i) for i in items if i is not None]
-    spans = [s for s in spans if s != A.NO_SPAN] or [A.NO_SPAN]
-    return (min(s[0] for s in spans), max(s[1] for s in spans))
+    lo, hi = None, None
+    for item in items:
+        if item is None:
+            continue
+        span = _sp(item)
+        if span == A.NO_SPAN:
+            continue
+        if lo is None:
+            lo, hi = span
+        else:
+            if span[0] < lo:
+                lo = span[0]
+            if span[1] > hi:
+                hi = span[1]
+    return A.NO_SPAN if lo is None else (lo, hi)
 
 
 _SUPERSCRIPTS = str.maketrans("⁰¹²³⁴⁵⁶⁷⁸⁹", "0123456789")
@@ -148,8 +322,99 @@ _PROD_WORDS = {"prod", "Prod", "Product", "product", "∏"}
 from lark import Transformer as _LarkTransformer  # noqa: E402  (lark is imported lazily via this module)
 
 
+# Precedence table of the flat arithmetic chain (see grammars/formula.lark, rule `expr`).
+PRECEDENCE = {"MOD": 1, "PLUS": 2, "MINUS": 2, "MUL": 4, "DIV": 4, "JUXT": 5, "POW": 6}
+RIGHT_ASSOC = {"POW"}
+# level covered by a sign, by the operator before it (None: start of the chain)
+SIGN_LEVEL = {None: 3, "MOD": 3, "PLUS": 3, "MINUS": 3, "MUL": 5, "DIV": 5, "POW": 6}
+_OPS = {"PLUS": "+", "MINUS": "-", "MUL": "*", "DIV": "/", "MOD": "mod"}
+
+
+def _mark(node: Any, *kids: Any) -> Any:
+    for kid in kids:
+        if not isinstance(kid, A.Node) or id(kid) in _DIRTY:
+            _DIRTY.add(id(node))
+            break
+    return node
+
+
+def _climb(ch: list) -> Any:
+    """Turn a flat chain [signs, operand, op, signs, operand, operand, ...] into a tree."""
+    items: list[list] = []  # [operator before (None / type / "JUXT"), signs, operand]
+    signs: list = []
+    op: str | None = None
+    want_operand = True
+    nesting = 0
+    for c in ch:
+        typ = getattr(c, "type", None)
+        if typ is None:  # a node
+            items.append([op if not want_operand or op is not None else (None if not items else "JUXT"),
+                          signs, c])
+            if not want_operand:
+                items[-1][0] = "JUXT"
+            signs, op, want_operand = [], None, False
+        elif typ == "DOTS":
+            items.append([op, signs, _DotsMark(_sp(c))])
+            signs, op, want_operand = [], None, False
+        elif want_operand:  # a sign
+            signs.append(c)
+            nesting += 1
+        else:
+            op, want_operand = typ, True
+            if typ == "POW":
+                nesting += 1
+        if nesting > MAX_DEPTH:
+            raise _PendingError(f"formula nested deeper than {MAX_DEPTH} levels", _sp(c))
+    if len(items) == 1 and not items[0][1]:
+        return items[0][2]
+    pos = 0
+
+    def operand(sign_level: int) -> Any:
+        nonlocal pos
+        item = items[pos]
+        if item[1]:
+            sign = item[1][0]
+            item[1] = item[1][1:]
+            inner = chain(sign_level, sign_level)
+            if sign.type == "PLUS":
+                return inner
+            return _mark(A.UnaryOp("-", inner, span=(sign.start_pos, _sp(inner)[1])), inner)
+        pos += 1
+        return item[2]
+
+    def chain(min_level: int, sign_level: int) -> Any:
+        nonlocal pos
+        left = operand(sign_level)
+        while pos < len(items):
+            op = items[pos][0]
+            level = PRECEDENCE[op]
+            if level < min_level:
+                break
+            right = chain(level if op in RIGHT_ASSOC else level + 1, SIGN_LEVEL.get(op, 6))
+            span = _join(left, right)
+            if op == "POW":
+                node = A.Power(left, right, span=span)
+            elif op == "JUXT":
+                node = A.BinOp("*", left, right, implicit=True, span=span)
+            else:
+                node = A.BinOp(_OPS[op], left, right, span=span)
+            left = _mark(node, left, right)
+        return left
+
+    return chain(0, 3)
+
+
 class _Build(_LarkTransformer):
-    """Grammar callbacks: children are lark Tokens and raw/AST nodes."""
+    """Grammar callbacks: children are lark Tokens and raw/AST nodes.
+
+    While building it also notes which names occur on their own (variables), which are
+    applied, and which are bound by sums, so the resolver needs no extra tree walk."""
+
+    def reset(self) -> None:
+        _DIRTY.clear()
+        self.standalone: set[str] = set()
+        self.applies: list = []
+        self.bound_names: set[str] = set()
 
     # --- statement
     def start(self, ch):
@@ -213,71 +478,84 @@ class _Build(_LarkTransformer):
     _REL = {"≠": "!=", "<>": "!=", "≤": "<=", "⩽": "<=", "≥": ">=", "⩾": ">=", "∼": "~", "≡": "=="}
 
     def relop(self, ch):
-        return self._REL.get(str(ch[0]), str(ch[0]))
+        return self._REL.get(_t(ch[0]), _t(ch[0]))
 
-    # --- arithmetic
-    def mod(self, ch):
-        return A.BinOp("mod", ch[0], ch[1], span=_join(*ch))
+    # --- arithmetic: a flat chain, then precedence climbing over the table below
+    def expr(self, ch):
+        return _climb(ch[0])
 
-    def add(self, ch):
-        return A.BinOp("+", ch[0], ch[2], span=_join(*ch))
+    body = expr
 
-    def sub(self, ch):
-        return A.BinOp("-", ch[0], ch[2], span=_join(*ch))
+    # the chain is one Python list, appended to as the parser reduces (no tree nodes)
+    def chain_first(self, ch):
+        return ch[0]
 
-    def add_dots(self, ch):
-        return A.BinOp("+", ch[0], _DotsMark(_sp(ch[2])), span=_join(*ch))
+    def chain_op(self, ch):
+        chain = ch[0]
+        chain.append(ch[1])
+        chain.extend(ch[2])
+        return chain
 
-    def mul_dots(self, ch):
-        return A.BinOp("*", ch[0], _DotsMark(_sp(ch[2])), span=_join(*ch))
+    def chain_dots(self, ch):
+        chain = ch[0]
+        chain.append(ch[1])
+        chain.append(ch[2])
+        return chain
 
-    def neg(self, ch):
-        return A.UnaryOp("-", ch[1], span=_join(*ch))
+    def chain_juxt(self, ch):
+        chain = ch[0]
+        chain.append(ch[1])
+        return chain
 
-    def pos(self, ch):
-        return ch[1]
+    def signed_unit(self, ch):
+        return [ch[0]]
 
-    def mul(self, ch):
-        return A.BinOp("*", ch[0], ch[2], span=_join(*ch))
+    def signed_sign(self, ch):
+        rest = ch[1]
+        rest.insert(0, ch[0])
+        return rest
 
-    def div(self, ch):
-        return A.BinOp("/", ch[0], ch[2], span=_join(*ch))
+    def binop(self, ch):
+        return ch[0]
 
-    def implicit_mul(self, ch):
-        return A.BinOp("*", ch[0], ch[1], implicit=True, span=_join(*ch))
-
-    def power(self, ch):
-        return A.Power(ch[0], ch[2], span=_join(*ch))
+    bbinop = binop
 
     def factorial(self, ch):
-        return A.Factorial(ch[0], False, span=_join(*ch))
+        return _mark(A.Factorial(ch[0], False, span=_join(*ch)), ch[0])
 
     def double_factorial(self, ch):
-        return A.Factorial(ch[0], True, span=_join(*ch))
+        return _mark(A.Factorial(ch[0], True, span=_join(*ch)), ch[0])
 
     def superscript_power(self, ch):
-        tok = str(ch[1])
+        tok = _t(ch[1])
         span = _sp(ch[1])
         if tok == "ⁿ":
-            exp: Any = _Name("n", span)
+            self.standalone.add("n")
+            exp: Any = A.Symbol("n", span=span)
         elif "ⁿ" in tok:
             raise _raw_error("mixed superscript", ch[1])
         else:
             exp = A.Integer(int(tok.translate(_SUPERSCRIPTS)), span=span)
-        return A.Power(ch[0], exp, span=_join(*ch))
+        return _mark(A.Power(ch[0], exp, span=_join(*ch)), ch[0])
 
     # --- atoms
     def integer(self, ch):
-        return A.Integer(int(ch[0]), span=_sp(ch[0]))
+        return A.Integer(int(_t(ch[0])), span=_sp(ch[0]))
 
     def decimal(self, ch):
-        return A.Decimal(str(ch[0]), Fraction(str(ch[0])), span=_sp(ch[0]))
+        return A.Decimal(_t(ch[0]), Fraction(_t(ch[0])), span=_sp(ch[0]))
 
     def name(self, ch):
-        return _Name(str(ch[0]), _sp(ch[0]))
+        name = ch[0].value
+        self.standalone.add(name)
+        if name in _CONSTANTS:  # pi, e, i...: constant or variable depends on context
+            return _Name(name, _sp(ch[0]))
+        return A.Symbol(name, span=_sp(ch[0]))
 
     def apply(self, ch):
-        return _Apply(str(ch[0]), ch[1], _join(ch[0], *ch[1]))
+        node = _Apply(_t(ch[0]), ch[1], _join(ch[0], *ch[1]))
+        self.applies.append(node)
+        return node
 
     def args(self, ch):
         return tuple(ch)
@@ -285,7 +563,9 @@ class _Build(_LarkTransformer):
     def subscript(self, ch):
         sub = ch[1]
         indices = sub if isinstance(sub, tuple) else (sub,)
-        return _Sub(str(ch[0]), indices, _join(ch[0], *indices))
+        node = _Sub(_t(ch[0]), indices, _join(ch[0], *indices))
+        self.applies.append(node)
+        return node
 
     def sub_list(self, ch):
         return tuple(ch)
@@ -294,16 +574,16 @@ class _Build(_LarkTransformer):
         return _BraceList(tuple(ch), _join(*ch))
 
     def gauss_floor(self, ch):
-        return A.Call("floor", (ch[0],), written="[]", span=_sp(ch[0]))
+        return _mark(A.Call("floor", (ch[0],), written="[]", span=_sp(ch[0])), ch[0])
 
     def gauss_ceil(self, ch):
-        return A.Call("ceiling", (ch[0],), written="⌈⌉", span=_sp(ch[0]))
+        return _mark(A.Call("ceiling", (ch[0],), written="⌈⌉", span=_sp(ch[0])), ch[0])
 
     def sqrt_sign(self, ch):
-        return A.Call("sqrt", (ch[1],), written="√", span=_join(*ch))
+        return _mark(A.Call("sqrt", (ch[1],), written="√", span=_join(*ch)), ch[1])
 
     def bigop(self, ch):
-        return ("prod" if str(ch[0]) in _PROD_WORDS else "sum", _sp(ch[0]))
+        return ("prod" if _t(ch[0]) in _PROD_WORDS else "sum", _sp(ch[0]))
 
     def bigop_sub(self, ch):
         (op, span), bound = ch[0], ch[1]
@@ -316,29 +596,36 @@ class _Build(_LarkTransformer):
         return _BigCall(op, args, (span[0], _join(*args)[1]))
 
     def bounds(self, ch):
-        return ch[0]
+        b = ch[0]
+        if b.var:
+            self.bound_names.add(b.var)
+            self.standalone.add(b.var)
+        return b
 
     def bound_eq(self, ch):
         parts = (ch[1],) if len(ch) == 2 else (ch[1], ch[3])
-        return _Bound("eq", str(ch[0]), parts, _join(*ch))
+        return _Bound("eq", _t(ch[0]), parts, _join(*ch))
 
     def bound_ge(self, ch):
-        return _Bound("ge", str(ch[0]), (ch[2],), _join(*ch))
+        return _Bound("ge", _t(ch[0]), (ch[2],), _join(*ch))
 
     def bound_gt(self, ch):
-        return _Bound("gt", str(ch[0]), (ch[1],), _join(*ch))
+        return _Bound("gt", _t(ch[0]), (ch[1],), _join(*ch))
 
     def bound_div(self, ch):
-        return _Bound("div", str(ch[0]), (ch[1],), _join(*ch))
+        return _Bound("div", _t(ch[0]), (ch[1],), _join(*ch))
 
     def bound_chain(self, ch):
-        return _Bound("chain", str(ch[2]), (ch[0], ch[4]), _join(*ch))
+        return _Bound("chain", _t(ch[2]), (ch[0], ch[4]), _join(*ch))
 
     def bound_range(self, ch):
         return _Bound("range", None, (ch[0], ch[2]), _join(*ch))
 
     def bound_var(self, ch):
-        return _Bound("var", str(ch[0]), (), _sp(ch[0]))
+        if self.standalone is not None:
+            self.bound_names.add(ch[0].value)
+            self.standalone.add(ch[0].value)
+        return _Bound("var", _t(ch[0]), (), _sp(ch[0]))
 
     def sup(self, ch):
         return ch[1]
@@ -346,20 +633,29 @@ class _Build(_LarkTransformer):
     def range_sep(self, ch):
         return ch[0]
 
+    def _binds(self, first):
+        if isinstance(first, (_Name, A.Symbol)):
+            self.bound_names.add(first.name)
+
     def arg_eq(self, ch):
+        self._binds(ch[0])
         return _Arg("eq", (ch[0], ch[1]), _join(*ch))
 
     def arg_range(self, ch):
+        self._binds(ch[0])
         return _Arg("range", (ch[0], ch[1], ch[3]), _join(*ch))
 
     def arg_range_bare(self, ch):
         return _Arg("range_bare", (ch[0], ch[2]), _join(*ch))
 
     def arg_ge(self, ch):
+        self._binds(ch[0])
         return _Arg("ge", (ch[0], ch[2]), _join(*ch))
 
     def arg_div(self, ch):
-        return _Arg("div", (_Name(str(ch[0]), _sp(ch[0])), ch[1]), _join(*ch))
+        self.bound_names.add(ch[0].value)
+        self.standalone.add(ch[0].value)
+        return _Arg("div", (_Name(_t(ch[0]), _sp(ch[0])), ch[1]), _join(*ch))
 
 
 def _raw_error(message: str, token: Any) -> Exception:
@@ -401,6 +697,8 @@ def _check_limits(text: str) -> None:
                            line=1, column=MAX_LENGTH + 1, source=text[: MAX_LENGTH + 40],
                            offending=text[MAX_LENGTH:MAX_LENGTH + 20],
                            expected=(f"at most {MAX_LENGTH} characters",))
+    if sum(text.count(c) for c in _OPEN) <= MAX_DEPTH:
+        return
     depth = 0
     for i, ch in enumerate(text):
         if ch in _OPEN:
@@ -447,6 +745,22 @@ def _humanize(expected: set[str]) -> tuple[str, ...]:
     return tuple(names[:8])
 
 
+def _driver_error(text: str, exc: _SyntaxError) -> FormulaError:
+    if exc.char:
+        ch = exc.text
+        hint = " (TeX commands are not part of the plain-text syntax)" if ch == "\\" else ""
+        line, col = A.line_col(text, exc.offset)
+        return FormulaError(f"unexpected character {ch!r}{hint}", line=line, column=col, source=text,
+                            offending=ch, expected=_humanize(exc.expected))
+    if exc.end:
+        line, col = A.line_col(text, len(text.rstrip()))
+        return FormulaError("formula ends too early", line=line, column=col, source=text, offending="",
+                            expected=_humanize(exc.expected))
+    line, col = A.line_col(text, exc.offset)
+    return FormulaError(f"unexpected {exc.text!r}", line=line, column=col, source=text,
+                        offending=exc.text, expected=_humanize(exc.expected))
+
+
 def _lark_error(text: str, exc: Exception) -> FormulaError:
     from lark.exceptions import UnexpectedCharacters, UnexpectedEOF, UnexpectedToken
 
@@ -464,8 +778,8 @@ def _lark_error(text: str, exc: Exception) -> FormulaError:
             return FormulaError("formula ends too early", line=line, column=col, source=text,
                                 offending="", expected=_humanize(set(exc.expected)))
         line, col = A.line_col(text, tok.start_pos)
-        return FormulaError(f"unexpected {str(tok)!r}", line=line, column=col, source=text,
-                            offending=str(tok), expected=_humanize(set(exc.expected)))
+        return FormulaError(f"unexpected {_t(tok)!r}", line=line, column=col, source=text,
+                            offending=_t(tok), expected=_humanize(set(exc.expected)))
     if isinstance(exc, UnexpectedEOF):
         line, col = A.line_col(text, len(text))
         return FormulaError("formula ends too early", line=line, column=col, source=text, offending="",
@@ -486,8 +800,10 @@ def parse_statement(text: str) -> A.Statement:
         _fail(text, 0, "empty formula", ("a formula",), "")
     from lark.exceptions import LarkError, VisitError
 
+    parser = _get_parser()
+    _builder.reset()
     try:
-        label, segs = _get_parser().parse(math)
+        label, segs = parser.parse(math)
     except VisitError as exc:  # an error raised inside a callback
         inner = exc.orig_exc
         if isinstance(inner, _PendingError):
@@ -495,13 +811,16 @@ def parse_statement(text: str) -> A.Statement:
         raise
     except _PendingError as exc:
         _fail(text, exc.span[0], exc.message)
+    except _SyntaxError as exc:
+        raise _driver_error(text, exc) from None
     except LarkError as exc:
         raise _lark_error(text, exc) from None
     try:
-        stmt = _Resolver(text, label, segs, note).statement()
+        stmt = _Resolver(text, label, segs, note, _builder).statement()
     except _PendingError as exc:
         _fail(text, exc.span[0], exc.message)
-    _check_depth(text, stmt)
+    if 2 * len(text) + 3 > MAX_DEPTH:  # each level of the tree takes at least half a character
+        _check_depth(text, stmt)
     return stmt
 
 
@@ -577,23 +896,17 @@ def _raw_walk(x: Any):
 
 
 class _Resolver:
-    def __init__(self, text: str, label: Any, segs: list[_Seg], note: str | None):
+    def __init__(self, text: str, label: Any, segs: list[_Seg], note: str | None, info: Any):
         self.text = text
         self.label_token = label
         self.segs = segs
         self.note = note
         self.bound: list[str] = []
         # every name used on its own (not applied) anywhere: those are variables
-        self.standalone: set[str] = set()
-        self.applied: set[str] = set()
-        for seg in segs:
-            for node in _raw_walk((seg.rel, seg.tails)):
-                if isinstance(node, _Name):
-                    self.standalone.add(node.name)
-                elif isinstance(node, _Bound) and node.var:
-                    self.standalone.add(node.var)
-                elif isinstance(node, (_Apply, _Sub)):
-                    self.applied.add(node.name)
+        self.standalone: set[str] = info.standalone
+        self.applies: list = info.applies
+        self.applied: set[str] = {a.name for a in info.applies}
+        self.bound_names: set[str] = info.bound_names
         self.sequences: set[str] = set()
         self.lhs_vars: set[str] = set()
         self._find_sequences()
@@ -604,25 +917,25 @@ class _Resolver:
         if not isinstance(main, _Rel) or not main.ops:
             return
         lhs = main.operands[0]
-        rhs_names = set()
-        for operand in main.operands[1:]:
-            for node in _raw_walk(operand):
-                if isinstance(node, (_Apply, _Sub)):
-                    rhs_names.add(node.name)
-        for node in _raw_walk(lhs):
-            if isinstance(node, (_Apply, _Sub)):
-                args = node.args if isinstance(node, _Apply) else node.indices
-                known = lookup(node.name, len(args)) is not None
-                # a short known name (F, C, ...) is a sequence only when the left side IS its
-                # term and the right side uses it again: `F(n) = F(n-1) + F(n-2)`; full names
-                # (binomial, gcd) never are: `binomial(n,k) = binomial(n-1,k-1) + ...` is an identity.
-                if not known or (node is lhs and node.name in rhs_names and len(node.name) <= 2):
-                    if node.name in self.standalone and isinstance(node, _Apply) and len(args) == 1 and not known:
-                        continue  # `n(n+1)/2 = ...`: a product, not a definition
-                    self.sequences.add(node.name)
-                    for a in args:
-                        if isinstance(a, _Name):
-                            self.lhs_vars.add(a.name)
+        lhs_end = _sp(lhs)[1]
+        main_end = main.span[1]
+        rhs_names = {a.name for a in self.applies if lhs_end <= a.span[0] < main_end}
+        lhs_start = _sp(lhs)[0]
+        for node in self.applies:
+            if not (lhs_start <= node.span[0] < lhs_end):
+                continue
+            args = node.args if isinstance(node, _Apply) else node.indices
+            known = lookup(node.name, len(args)) is not None
+            # a short known name (F, C, ...) is a sequence only when the left side IS its
+            # term and the right side uses it again: `F(n) = F(n-1) + F(n-2)`; full names
+            # (binomial, gcd) never are: `binomial(n,k) = binomial(n-1,k-1) + ...` is an identity.
+            if not known or (node is lhs and node.name in rhs_names and len(node.name) <= 2):
+                if node.name in self.standalone and isinstance(node, _Apply) and len(args) == 1 and not known:
+                    continue  # `n(n+1)/2 = ...`: a product, not a definition
+                self.sequences.add(node.name)
+                for a in args:
+                    if isinstance(a, (_Name, A.Symbol)):
+                        self.lhs_vars.add(a.name)
 
     def err(self, message: str, x: Any) -> _PendingError:
         return _PendingError(message, _sp(x))
@@ -631,7 +944,7 @@ class _Resolver:
     def statement(self) -> A.Statement:
         label = None
         if self.label_token is not None:
-            label = "egf" if str(self.label_token).lstrip()[:1] in "Ee" else "ogf"
+            label = "egf" if _t(self.label_token).lstrip()[:1] in "Ee" else "ogf"
         segs = []
         for seg in self.segs:  # `X with a(0)=1`: the initial value becomes its own clause
             keep = tuple(t for t in seg.tails if t[0] != "with")
@@ -755,6 +1068,11 @@ class _Resolver:
 
     # -- expressions
     def expr(self, x: Any) -> A.Node:
+        if isinstance(x, A.Node) and id(x) not in _DIRTY:
+            if isinstance(x, A.Symbol) and x.name in self.sequences:
+                pass  # (cannot happen: sequence names are applied) keep the general path
+            else:
+                return x
         if isinstance(x, _Name):
             return self.name(x)
         if isinstance(x, _Apply):
@@ -835,14 +1153,7 @@ class _Resolver:
         return A.Symbol(n, span=x.span)
 
     def _bound_anywhere(self, name: str) -> bool:
-        for seg in self.segs:
-            for node in _raw_walk((seg.rel, seg.tails)):
-                if isinstance(node, _Bound) and node.var == name:
-                    return True
-                if isinstance(node, _Arg) and node.kind in ("eq", "range", "ge", "div") \
-                        and isinstance(node.parts[0], _Name) and node.parts[0].name == name:
-                    return True
-        return False
+        return name in self.bound_names
 
     def apply(self, x: _Apply) -> A.Node:
         n, args = x.name, x.args
@@ -888,7 +1199,7 @@ class _Resolver:
                        None if divides is None else self.expr(divides), span=span)
 
     def _guess_var(self, body_raw: Any, where: Any) -> str:
-        inside = {n.name for n in _raw_walk(body_raw) if isinstance(n, _Name)}
+        inside = {n.name for n in _raw_walk(body_raw) if isinstance(n, (_Name, A.Symbol))}
         cands = inside - self.lhs_vars - set(self.bound)
         for pref in _BOUND_PREFERENCE:
             if pref in cands:
@@ -937,7 +1248,7 @@ class _Resolver:
         word = "Sum" if x.op == "sum" else "Product"
 
         def var_of(a: Any) -> str:
-            if not isinstance(a, _Name):
+            if not isinstance(a, (_Name, A.Symbol)):
                 raise self.err(f"the variable of a {word.lower()} must be a name", a)
             return a.name
 
@@ -964,7 +1275,7 @@ class _Resolver:
                     if rng.kind == "eq":
                         return self._make_bigop(x.op, var_of(rng.parts[0]), body, rng.parts[1],
                                                 self._inf(rng.span), None, x.span, x)
-            if isinstance(args[0], _Name) and not isinstance(args[1], _Arg):
+            if isinstance(args[0], (_Name, A.Symbol)) and not isinstance(args[1], _Arg):
                 return self._make_bigop(x.op, args[0].name, args[1], None, None, None, x.span, x)
         if len(args) == 3:
             # sum(k=0, n, body)  /  sum(body, k=0, n)
@@ -974,7 +1285,7 @@ class _Resolver:
             if isinstance(args[1], _Arg) and args[1].kind == "eq":
                 return self._make_bigop(x.op, var_of(args[1].parts[0]), args[0], args[1].parts[1], args[2],
                                         None, x.span, x)
-        if len(args) == 4 and isinstance(args[1], _Name):
+        if len(args) == 4 and isinstance(args[1], (_Name, A.Symbol)):
             # sum(body, k, lo, hi)
             return self._make_bigop(x.op, args[1].name, args[0], args[2], args[3], None, x.span, x)
         raise self.err(f"cannot read the limits of this {word.lower()}; write {x.op}(k=0..n, body)", x)

@@ -92,7 +92,7 @@ def _normal(value: Number) -> Number:
         return value
     if isinstance(value, Fraction):
         return value.numerator if value.denominator == 1 else value
-    raise RecurrenceError(f"the rule gave a non-exact value {value!r}")
+    raise RecurrenceError(f"the rule gave the value {value}, which is not an exact rational number")
 
 
 def evaluate(rec: Recurrence, first: int, count: int, initial: Mapping[int, Number] | None = None,

@@ -16,8 +16,7 @@ from __future__ import annotations
 
 from dataclasses import dataclass
 from fractions import Fraction
-from math import factorial
-from typing import Callable, Iterable, Sequence
+from typing import Callable, Iterable
 
 Number = int | Fraction
 

@@ -25,7 +25,7 @@ from contextlib import contextmanager
 from dataclasses import dataclass, field
 from fractions import Fraction
 from math import factorial as _factorial
-from typing import Any, Callable, Iterator, Mapping, Sequence
+from typing import Any, Callable, Iterator, Mapping
 
 from normform.formula import ast as A
 from normform.formula import recurrence as R
@@ -64,20 +64,23 @@ def budget(seconds: float) -> Iterator[None]:
     saved = _DEADLINE
     _DEADLINE = min(saved, time.monotonic() + seconds)
     timer = False
+    active = [True]
     if threading.current_thread() is threading.main_thread() and hasattr(signal, "setitimer") \
             and signal.getsignal(signal.SIGALRM) in (signal.SIG_DFL, None) and saved == float("inf"):
         def on_alarm(signum: int, frame: Any) -> None:
-            raise R.LimitExceeded(f"time budget of {seconds:g} s spent")
+            if active[0]:  # a late alarm after the body finished is ignored
+                raise R.LimitExceeded(f"time budget of {seconds:g} s spent")
         signal.signal(signal.SIGALRM, on_alarm)
         signal.setitimer(signal.ITIMER_REAL, seconds + 0.25)  # cooperative checks usually fire first
         timer = True
     try:
         yield
     finally:
+        active[0] = False
+        _DEADLINE = saved
         if timer:
             signal.setitimer(signal.ITIMER_REAL, 0)
             signal.signal(signal.SIGALRM, signal.SIG_DFL)
-        _DEADLINE = saved
 
 
 def _check_time() -> None:
@@ -498,7 +501,13 @@ class SeriesReader(A.Visitor):
         return value if isinstance(value, S.Series) else S.Series.constant(value, self.prec)
 
     def _exact(self, node: A.Node) -> Any:
-        return compile_exact(node)(dict(self.env))
+        try:
+            value = compile_exact(node)(dict(self.env))
+        except ZeroDivisionError:
+            raise CannotCompute("division by zero", node) from None
+        if isinstance(value, Inexact):
+            raise CannotCompute(f"the coefficient {value} is irrational; the series is not over the rationals", node)
+        return value
 
     def _has_var(self, node: A.Node) -> bool:
         """Does ``node`` mention the series variable? (one bottom-up pass per tree, then cached)"""
@@ -651,6 +660,9 @@ class Plan:
     lhs: A.Node | None = None
     gf_label: str | None = None       # "ogf"/"egf" when the text said so
     initial: Mapping[int, Number] = field(default_factory=dict)  # closed forms with stated values
+    var2: str | None = None           # tables T(n,k): the column variable
+    also: A.Node | None = None        # identities f(n) = g(n): the left side, checked too
+    conditions: tuple[A.Node, ...] = ()
 
 
 def parse(text: str) -> Any:
@@ -800,13 +812,24 @@ def _plan(formula: Any, stmt: A.Statement) -> Plan:
                 return Plan("recurrence", rhs, var=var, name=name, recurrence=rec, lhs=lhs)
             return Plan("closed-form", rhs, var=var, name=name, lhs=lhs, condition=_conditions(stmt, var),
                         initial=initial)
+        if len(refs) == 1 and isinstance(lhs, A.SeqRef) and len(lhs.indices) == 2 and \
+                all(isinstance(i, A.Symbol) for i in lhs.indices) and not A.seq_refs(rhs):
+            # a table T(n,k) = f(n,k), read by rows
+            row, col = (i.name for i in lhs.indices)
+            extra = A.free_symbols(rhs) - {row, col}
+            if extra:
+                raise CannotCompute(f"the table formula has free variables {', '.join(sorted(extra))}", rhs)
+            return Plan("table", rhs, var=row, var2=col, name=lhs.name, lhs=lhs, conditions=stmt.conditions)
         if refs:
             raise CannotCompute("the left side names more than one term or a table entry", lhs)
     var = "n" if "n" in free or not free else (sorted(free)[0] if len(free) == 1 else "n")
     if len(free - {var}) > 0:
         raise CannotCompute(f"the formula has free variables {', '.join(sorted(free - {var}))} besides {var}",
                             rhs)
-    return Plan("closed-form", rhs, var=var, lhs=lhs, condition=_conditions(stmt, var))
+    also = None
+    if lhs is not None and A.free_symbols(lhs) <= {var} and not A.seq_refs(lhs):
+        also = lhs  # an identity: both sides should give the listed terms
+    return Plan("closed-form", rhs, var=var, lhs=lhs, condition=_conditions(stmt, var), also=also)
 
 
 def _index_var(index: A.Node | None, rhs: A.Node) -> str:
@@ -910,7 +933,40 @@ def terms(formula: Any, first_index: int, count: int, initial: Any = None, *,
                           limits=limits)
     if kind == "asymptotic":
         raise CannotCompute("an asymptotic formula a(n) ~ f(n) does not give exact terms")
+    if kind == "table":
+        return table_terms(p, first_index, count, limits)
     return closed_form_terms(p, first_index, count, limits)
+
+
+def table_cells(p: Plan, first_row: int, count: int) -> list[tuple[int, int]]:
+    """The first ``count`` cells (n, k) of a table read by rows from row ``first_row``:
+    k = 0..n, kept where the formula's conditions on k hold (``1 <= k <= n``)."""
+    assert p.var2 is not None
+    conds = [compile_exact(c) for c in p.conditions if A.free_symbols(c) <= {p.var, p.var2}]
+    cells: list[tuple[int, int]] = []
+    n = first_row
+    while len(cells) < count:
+        if n - first_row > count + 2:
+            raise CannotCompute("the table's conditions leave its rows empty")
+        for k in range(0, n + 1):
+            env = {p.var: n, p.var2: k}
+            if all(c(env) for c in conds):
+                cells.append((n, k))
+                if len(cells) == count:
+                    break
+        n += 1
+    return cells
+
+
+def table_terms(p: Plan, first_row: int, count: int, limits: R.Limits) -> list[Number]:
+    code = compile_exact(p.expr)
+    out = []
+    for n, k in table_cells(p, first_row, count):
+        value = code({p.var: n, p.var2: k})
+        if isinstance(value, Inexact) or isinstance(value, bool):
+            raise CannotCompute(f"T({n},{k}) = {value} is not an exact rational number", p.expr)
+        out.append(value)
+    return out
 
 
 def closed_form_terms(p: Plan, first_index: int, count: int, limits: R.Limits) -> list[Number]:

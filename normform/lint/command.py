@@ -44,19 +44,19 @@ def _list_rules(rules, stream) -> int:
     return 0
 
 
-def _known_ids(files: list[str], pattern: str) -> set[str]:
-    """Ids of entry files beside the linted ones (by file name), for see-also checks."""
+def _known_ids(files: list[str], pattern: str) -> dict[str, str]:
+    """Ids of entry files beside the linted ones (by file name) -> their paths."""
     import re
     from pathlib import Path
 
     from normform.lint.entry import ENTRY_SUFFIXES
 
-    out: set[str] = set()
-    for folder in {Path(f).parent for f in files}:
+    out: dict[str, str] = {}
+    for folder in sorted({Path(f).parent for f in files}):
         try:
-            for child in folder.iterdir():
+            for child in sorted(folder.iterdir()):
                 if child.suffix.lower() in ENTRY_SUFFIXES and re.fullmatch(pattern, child.stem):
-                    out.add(child.stem)
+                    out.setdefault(child.stem, str(child))
         except OSError:
             continue
     return out
@@ -97,6 +97,7 @@ def _lint(args, settings, rules, fail_on: str) -> int:
     from normform.lint.engine import Context, lint
     from normform.lint.entry import EntrySyntaxError, entry_files, read_entry
     from normform.lint.findings import RANK, Finding
+    from normform.lint.positions import Located
     from normform.lint.registry import _RULES
 
     io_errors = 0
@@ -109,6 +110,7 @@ def _lint(args, settings, rules, fail_on: str) -> int:
         files.extend(entry_files([path]))
     selected = {r.slug for r in rules}
     entries, findings = [], []
+    syntax_sources: dict[str, Located] = {}   # for the excerpt under a syntax error
     syntax_rule = _RULES["file-syntax"]
     for path in files:
         try:
@@ -118,12 +120,14 @@ def _lint(args, settings, rules, fail_on: str) -> int:
                 findings.append(Finding(syntax_rule.slug, syntax_rule.severity,
                                         f"{exc.message}" + (f"; expected {', '.join(exc.expected)}" if exc.expected else ""),
                                         path, exc.line, exc.column, category=syntax_rule.category))
-        except (OSError, UnicodeDecodeError) as exc:
+                if exc.source is not None:
+                    syntax_sources[path] = Located(exc.source, "toml")
+        except OSError as exc:
             print(f"normform lint: {path}: cannot read: {exc}", file=sys.stderr)
             io_errors += 1
     ctx = Context(settings, known_ids=_known_ids(files, settings.id_pattern))
     findings.extend(lint(entries, rules, ctx))
-    sources = {e.path: e.where for e in entries}
+    sources = {**syntax_sources, **{e.path: e.where for e in entries}}
 
     if args.fix or args.diff:
         findings, sources, io_errors = _fix(args, entries, rules, ctx, findings, sources, io_errors)
@@ -131,7 +135,7 @@ def _lint(args, settings, rules, fail_on: str) -> int:
     findings.sort(key=Finding.sort_key)
     out = sys.stdout
     if args.format == "json":
-        report.as_json(findings, out, files=len(files), skipped=ctx.skipped)
+        report.as_json(findings, out, files=len(files), skipped=ctx.skipped, failed=ctx.failed)
     elif args.format == "sarif":
         from normform import __version__
 
@@ -203,5 +207,5 @@ def _fix(args, entries, rules, ctx, findings, sources, io_errors):
         fresh = [parse_entry(e.path, changed.get(e.path, e.text)) for e in entries]
         kept = [f for f in findings if f.slug == "file-syntax"]
         findings = kept + lint(fresh, rules, ctx)
-        sources = {e.path: e.where for e in fresh}
+        sources = {**sources, **{e.path: e.where for e in fresh}}
     return findings, sources, io_errors

@@ -14,7 +14,7 @@ from normform.lint.settings import LintSettings
 @dataclass
 class Context:
     settings: LintSettings
-    known_ids: set[str] = field(default_factory=set)   # ids of entries outside this run
+    known_ids: dict[str, str] = field(default_factory=dict)  # id -> file, for entry files beside the run
     skipped: dict[str, str] = field(default_factory=dict)   # slug -> why (a service is missing)
     failed: dict[str, str] = field(default_factory=dict)    # slug -> the error (a rule crashed)
 

@@ -66,6 +66,16 @@ class Entry:
         return Edit(start, end, toml_string(value, prefer_literal=old.startswith("'")))
 
 
+    def insert_top_level_after(self, after: str, key: str, value: int) -> Edit:
+        """An edit that adds ``key = value`` right after the top-level value ``after``."""
+        end = self.where.values[(after,)][1]
+        if self.kind == "json":
+            import json
+
+            return Edit(end, end, f", {json.dumps(key)}: {value}")
+        return Edit(end, end, f"\n{key} = {value}")
+
+
 def toml_string(value: str, prefer_literal: bool = False) -> str:
     """``value`` as a TOML string literal, keeping the author's quoting when possible."""
     controls = any((ord(c) < 32 and c not in "\t\n") or ord(c) == 127 for c in value)
@@ -133,7 +143,15 @@ def parse_entry(path: str, text: str) -> Entry:
 def read_entry(path: str) -> Entry:
     """Read and parse one file; ``OSError`` / ``UnicodeDecodeError`` propagate to the caller."""
     raw = FsPath(path).read_bytes()
-    text = raw.decode("utf-8")
+    try:
+        text = raw.decode("utf-8")
+    except UnicodeDecodeError as exc:
+        before = raw[: exc.start].decode("utf-8", errors="replace")
+        line = before.count("\n") + 1
+        column = len(before) - (before.rfind("\n") + 1) + 1
+        raise EntrySyntaxError(f"the file is not UTF-8 (byte 0x{raw[exc.start]:02x})", line=line, column=column,
+                               source=raw.decode("utf-8", errors="replace"), path=path,
+                               expected=("UTF-8 text",)) from None
     return parse_entry(path, text)
 
 

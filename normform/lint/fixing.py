@@ -1,7 +1,7 @@
 """Apply fixes to an entry's text: non-overlapping edits, re-lint, repeat until stable.
 
-A fixed text is accepted only when it still parses and holds exactly the same
-keys at every level as before (a fix may change values, never drop a field).
+A fixed text is accepted only when it still parses and keeps every key and
+array element it had (a fix may change values or add a key, never drop one).
 """
 
 from __future__ import annotations
@@ -36,13 +36,21 @@ def shape(value) -> object:
     return None
 
 
+def covers(old, new) -> bool:
+    """True when ``new`` keeps every key and array element of ``old``."""
+    if isinstance(old, dict):
+        return isinstance(new, dict) and all(k in new and covers(v, new[k]) for k, v in old.items())
+    if isinstance(old, list):
+        return isinstance(new, list) and len(new) == len(old) and all(map(covers, old, new))
+    return not isinstance(new, (dict, list))
+
+
 class FixRefused(RuntimeError):
     """A fix would break the file or drop a field; nothing is written."""
 
 
 def fix_text(entry: Entry, lint_one) -> tuple[str, int]:
     """Fixed text of ``entry`` and the number of edits; ``lint_one(entry) -> findings``."""
-    original = shape(entry.data)
     text, total = entry.text, 0
     current = entry
     findings: list[Finding] = lint_one(current)
@@ -57,8 +65,8 @@ def fix_text(entry: Entry, lint_one) -> tuple[str, int]:
             current = parse_entry(entry.path, new_text)
         except EntrySyntaxError as exc:
             raise FixRefused(f"a fix would make the file invalid ({exc.message}); nothing written") from None
-        if shape(current.data) != original:
-            raise FixRefused("a fix would change the entry's keys; nothing written")
+        if not covers(entry.data, current.data):
+            raise FixRefused("a fix would drop a key or an array element; nothing written")
         text, total = new_text, total + count
         findings = lint_one(current)
     return text, total

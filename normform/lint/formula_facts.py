@@ -17,6 +17,7 @@ class FormulaFact:
     kind: str | None                   # the kind the entry declares
     formula: object | None = None      # normform Formula when it parses
     error: Exception | None = None     # FormulaError when it does not
+    crash: str | None = None           # the engine failed on it (not the contributor's fault)
     verdicts: dict = field(default_factory=dict)   # first index -> Verdict
 
 
@@ -34,6 +35,8 @@ def facts(entry) -> list[FormulaFact]:
                 fact.formula = services.parse_formula(text)
             except error_class as exc:
                 fact.error = exc
+            except Exception as exc:  # noqa: BLE001 - an engine bug must not hide the other formulas
+                fact.crash = f"{type(exc).__name__}: {exc}"
             cached.append(fact)
     entry.cache["formulas"] = cached
     return cached
@@ -46,7 +49,13 @@ def verdict(entry, fact: FormulaFact, start: int | None = None):
         return None
     start = first_index(entry) if start is None else start
     if start not in fact.verdicts:
-        fact.verdicts[start] = services.check_formula(fact.formula, terms, start)
+        try:
+            fact.verdicts[start] = services.check_formula(fact.formula, terms, start)
+        except services.Unavailable:
+            raise
+        except Exception as exc:  # noqa: BLE001 - recorded, reported by formula-unchecked
+            fact.crash = fact.crash or f"{type(exc).__name__}: {exc}"
+            fact.verdicts[start] = None
     return fact.verdicts[start]
 
 

@@ -54,6 +54,10 @@ class Located:
         line = bisect_right(self._line_starts, offset)
         return line, offset - self._line_starts[line - 1] + 1
 
+    @property
+    def line_count(self) -> int:
+        return len(self._line_starts)
+
     def line_text(self, line: int) -> str:
         start = self._line_starts[line - 1]
         end = self.text.find("\n", start)

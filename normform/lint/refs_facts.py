@@ -145,3 +145,14 @@ def identity_key(ref, raw: str | None = None) -> tuple:
     if ref is not None and ref.title and ref.authors:
         return ("work", _fold(ref.authors[0].family_full()), ref.year, _fold(ref.title)[:60])
     return ("text", _fold(raw))
+
+
+def work_key(entry, item: RefItem) -> tuple:
+    """``identity_key`` of one reference, preferring identifiers found in its own text."""
+    for ref_path, ident, _span in reference_ids(entry):
+        if ref_path == item.path and ident.valid and ident.scheme in ("doi", "arxiv"):
+            value = ident.value.lower()
+            if ident.scheme == "arxiv" and value[:4].isdigit():
+                value = value.split("v")[0]
+            return (ident.scheme, value)
+    return identity_key(parsed(entry, item), item.text)

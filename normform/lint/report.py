@@ -31,7 +31,7 @@ def text(findings: list[Finding], sources: dict[str, object], stream: TextIO, *,
         fixable = " [fixable]" if f.fix is not None else ""
         stream.write(f"{head} {sev} {f.slug} {f.message}{fixable}\n")
         where = sources.get(f.path)
-        if where is not None and f.line <= len(where._line_starts):
+        if where is not None and f.line <= where.line_count:
             line_text = where.line_text(f.line).replace("\t", " ")
             width = 1
             if f.end_line == f.line and f.end_column and f.end_column > f.column:
@@ -44,10 +44,11 @@ def text(findings: list[Finding], sources: dict[str, object], stream: TextIO, *,
     stream.write(summary + "\n")
 
 
-def as_json(findings: list[Finding], stream: TextIO, *, files: int, skipped: dict[str, str]) -> None:
+def as_json(findings: list[Finding], stream: TextIO, *, files: int, skipped: dict[str, str],
+            failed: dict[str, str] | None = None) -> None:
     counts = {s: sum(1 for f in findings if f.severity == s) for s in ("error", "warning", "note")}
     payload = {"files": files, "counts": counts, "findings": [f.to_dict() for f in findings],
-               "skipped_rules": skipped}
+               "skipped_rules": skipped, "failed_rules": failed or {}}
     json.dump(payload, stream, ensure_ascii=False, indent=2)
     stream.write("\n")
 

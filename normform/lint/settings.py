@@ -47,37 +47,17 @@ class LintSettings:
         return out
 
 
-def _own_lookup(start: Path) -> tuple[dict, str | None]:
-    """Nearest ``normform.toml`` or ``pyproject.toml`` with a normform table."""
-    import tomllib
-
-    for folder in [start, *start.parents]:
-        for name in ("normform.toml", "pyproject.toml"):
-            candidate = folder / name
-            if candidate.is_file():
-                data = tomllib.loads(candidate.read_text("utf-8"))
-                if name == "pyproject.toml":
-                    data = data.get("tool", {}).get("normform")
-                    if data is None:
-                        continue
-                return data, str(candidate)
-    return {}, None
-
-
 def load_settings(start: str | Path | None = None) -> LintSettings:
     """Settings for a run started in ``start`` (default: the working directory)."""
     start = Path(start or ".").resolve()
     table: dict = {}
     source = None
-    try:
-        from normform.config import load_config  # the project-wide reader
-    except ImportError:
-        load_config = None
-    if load_config is not None:
-        table, source = _from_project_config(load_config, start)
-    else:
-        table, source = _own_lookup(start)
+    from normform.config import load_config  # the project-wide reader of [tool.normform]
+
+    table, source = _from_project_config(load_config, start)
     lint = table.get("lint", {}) if isinstance(table, dict) else {}
+    if not isinstance(lint, dict):
+        raise ValueError(f"[tool.normform.lint] in {source or 'configuration'} must be a table")
     return LintSettings.from_table(lint, source)
 
 

@@ -91,8 +91,12 @@ def check(value, node: dict | None = None, path: tuple = ()) -> Iterator[Problem
             if key in props:
                 yield from check(item, props[key], path + (key,))
             elif node.get("additionalProperties", True) is False:
+                from difflib import get_close_matches
+
+                close = get_close_matches(str(key), list(props), n=1, cutoff=0.6)
+                hint = f"did you mean {close[0]!r}? " if close else ""
                 yield Problem("unknown", path + (key,),
-                              f"unknown key {key!r}; known keys here: {', '.join(props)}")
+                              f"unknown key {key!r}; {hint}known keys here: {', '.join(props)}")
     elif wanted == "array" and "items" in node:
         for i, item in enumerate(value):
             yield from check(item, node["items"], path + (i,))

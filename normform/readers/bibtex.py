@@ -57,6 +57,8 @@ VERBATIM = frozenset({"url", "doi", "eprint", "hdl", "normform-raw", "normform-f
 PROVENANCE_FIELDS = ("normform-raw", "normform-confidence", "normform-fields", "normform-origin")
 
 _ENTRY_START = re.compile(r"^[ \t]*@", re.MULTILINE)
+# A group right after a command word or an accent symbol is its argument, not a protection.
+_ARGUMENT_BEFORE = re.compile(r"(?<!\\)(?:\\\\)*\\(?:[A-Za-z]+\*?|['\"^~`=.])$")
 _CIRCA = re.compile(r"^(?:c\.|ca\.|circa)\s*(\d{3,4})$", re.IGNORECASE)
 
 
@@ -204,7 +206,7 @@ def title_hints(tex: str) -> list[str]:
             if depth == 0:
                 inner = tex[begin + 1:i]
                 before = tex[:begin].rstrip()
-                is_argument = re.search(r"\\[A-Za-z]+\*?$|\\.$", before) is not None and not before.endswith("\\\\")
+                is_argument = _ARGUMENT_BEFORE.search(before) is not None
                 if inner and not inner.startswith("\\") and not is_argument:
                     text = to_unicode(inner)
                     if text:

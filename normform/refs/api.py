@@ -19,6 +19,9 @@ _CONTROL = re.compile(r"[\x00-\x08\x0b-\x1f\x7f-\x9f\ufffd]")
 _PREFIX_LABEL = re.compile(r"\s*(?:\[[^\]\s]{1,12}\]|\d{1,4}[.)]|\(\d{1,4}\))\s+")
 
 
+_NORMAL_CHARS = re.compile(r"[\w\s.,;:()\[\]{}\-–—'\"“”‘’/&$\\^*+=?!@#%~`<>|′]+")
+
+
 def _empty(raw: str) -> Reference:
     return Reference(provenance=Provenance(raw=raw, fields=(), confidence=0.0))
 
@@ -64,8 +67,8 @@ def _junk_ratio(text: str) -> float:
     common punctuation: high for binary junk."""
     if not text:
         return 1.0
-    bad = sum(1 for ch in text[:2000] if not (ch.isalnum() or ch.isspace() or ch in ".,;:()[]{}-–—'\"“”’/&$\\^_*+=?!@#%~`<>|"))
-    return bad / min(len(text), 2000)
+    head = text[:2000]
+    return len(_NORMAL_CHARS.sub("", head)) / len(head)
 
 
 def parse_references(lines: Iterable[str]) -> Iterator[Reference]:

@@ -27,6 +27,12 @@ _DIGITS = re.compile(r"\d+")
 _MARKUP = re.compile(r"\\(?:emph|textit|textbf|textsl|em|it|bf|sl|textsc|sc|mathrm)\b\s*|[*_]{1,2}")
 _TEX_HINT = re.compile(r"[\\{}~]|\$")
 _SPACES = re.compile(r"\s+")
+_KIND_WORDS = re.compile(
+    r"(?i)\b(?:(?P<thesis>ph\.?\s?d\.?|doctoral|master'?s|habilitation|diplom|thesis|dissertation|tesis)"
+    r"|(?P<unpub>to appear|in press|forthcoming|submitted|in preparation|personal communication|"
+    r"private communication|unpublished|manuscript)"
+    r"|(?P<software>software|package|version \d|computer program|data ?set|github)"
+    r"|(?P<report>technical report|tech\.? rep|report|preprint|lecture notes|course notes|notes))\b")
 _THESIS = re.compile(r"(?i)\b(?:ph\.?\s?d\.?|doctoral|master'?s|habilitation|diplom|thesis|dissertation|tesis)\b")
 _REPORT = re.compile(r"(?i)\b(?:technical report|tech\.? rep|report|preprint|lecture notes|course notes|notes)\b")
 _UNPUB = re.compile(r"(?i)\b(?:to appear|in press|forthcoming|submitted|in preparation|personal communication|private communication|unpublished|manuscript)\b")
@@ -273,12 +279,15 @@ def assemble(text: str, tokens: list[Token], labels: list[str], marg: list[float
         notes.append("[line cut: too many tokens]")
         penalty *= 0.2
 
+    found: dict[str, str] = {}
+    for m in _KIND_WORDS.finditer(text):
+        found.setdefault(m.lastgroup, m.group().lower())
     # Literal dates written in words: "to appear", "in press"
-    m = _UNPUB.search(text)
-    if "date" not in values and m and m.group().lower() in ("to appear", "in press", "forthcoming", "submitted", "in preparation"):
-        values["date"] = Date(literal=m.group().lower())
+    if "date" not in values and found.get("unpub") in ("to appear", "in press", "forthcoming", "submitted",
+                                                        "in preparation"):
+        values["date"] = Date(literal=found["unpub"])
 
-    kind = _kind(text, values, idents)
+    kind = _kind(text, values, idents, found)
     rec_conf = _record_confidence(values, infos, seq_prob, penalty, kind, etal)
     prov = Provenance(raw=text, fields=tuple(infos), confidence=round(rec_conf, 4))
     extra: tuple[tuple[str, str], ...] = (("et-al", "true"),) if etal else ()
@@ -306,13 +315,13 @@ def assemble(text: str, tokens: list[Token], labels: list[str], marg: list[float
     )
 
 
-def _kind(text: str, v: dict, idents: list[Identifier]) -> Kind:
+def _kind(text: str, v: dict, idents: list[Identifier], found: dict[str, str]) -> Kind:
     genre = v.get("genre") or ""
-    if _THESIS.search(genre) or (not v.get("container_title") and _THESIS.search(text)):
+    if (genre and _THESIS.search(genre)) or (not v.get("container_title") and "thesis" in found):
         return Kind.THESIS
-    if _UNPUB.search(text) and not v.get("volume"):
+    if "unpub" in found and not v.get("volume"):
         return Kind.UNPUBLISHED
-    if _SOFTWARE.search(text) and not v.get("container_title"):
+    if "software" in found and not v.get("container_title"):
         return Kind.SOFTWARE
     container = v.get("container_title") or ""
     if container:
@@ -321,7 +330,7 @@ def _kind(text: str, v: dict, idents: list[Identifier]) -> Kind:
         if _PROC.search(container) and not v.get("volume"):
             return Kind.PAPER
         return Kind.ARTICLE
-    if _REPORT.search(genre) or _REPORT.search(text) and not v.get("publisher"):
+    if (genre and _REPORT.search(genre)) or "report" in found and not v.get("publisher"):
         return Kind.REPORT
     if v.get("publisher") or v.get("series") or v.get("edition") or any(i.scheme == "isbn" for i in idents):
         return Kind.BOOK

@@ -31,69 +31,16 @@ def custom_block(ref) -> dict:
     return out
 
 
-def to_csl(ref, index: int) -> dict:
-    """CSL-JSON object of one parsed line, via the project's exporter."""
-    try:
+def to_csl(ref, index: int, exporter=None) -> dict:
+    """CSL-JSON object of one parsed line (the project's CSL-JSON exporter)
+    with our ``custom`` block merged in."""
+    if exporter is None:
         from normform.export.csljson import CslJsonExporter
-    except ImportError:  # exporter not installed in this tree yet
-        CslJsonExporter = None
-    if CslJsonExporter is not None:
-        item = CslJsonExporter().item(ref) if hasattr(CslJsonExporter, "item") else CslJsonExporter().export(ref)
-        if isinstance(item, str):
-            item = json.loads(item)
-        if isinstance(item, list):
-            item = item[0] if item else {}
-    else:
-        item = _minimal_csl(ref)
-    item = dict(item)
-    item.setdefault("id", f"line{index}")
+        exporter = CslJsonExporter()
+    item = dict(exporter.record(ref, f"line{index}"))
     custom = dict(item.get("custom") or {})
     custom.update(custom_block(ref))
     item["custom"] = custom
-    return item
-
-
-def _minimal_csl(ref) -> dict:
-    # Used only while normform.export.csljson is missing from the tree.
-    types = {"article": "article-journal", "book": "book", "chapter": "chapter", "paper": "paper-conference",
-             "thesis": "thesis", "report": "report", "webpage": "webpage", "software": "software",
-             "unpublished": "manuscript", "other": "document"}
-    item: dict = {"type": types.get(ref.kind.value, "document")}
-
-    def names(ns):
-        out = []
-        for n in ns:
-            if n.literal:
-                out.append({"literal": n.literal})
-                continue
-            d = {k: v for k, v in (("family", n.family), ("given", n.given),
-                                   ("non-dropping-particle", n.particle), ("suffix", n.suffix)) if v}
-            out.append(d)
-        return out
-    if ref.authors:
-        item["author"] = names(ref.authors)
-    if ref.editors:
-        item["editor"] = names(ref.editors)
-    for key, val in (("title", ref.title), ("container-title", ref.container_title),
-                     ("collection-title", ref.series), ("collection-number", ref.series_number),
-                     ("volume", ref.volume), ("issue", ref.issue), ("publisher", ref.publisher),
-                     ("publisher-place", ref.place), ("edition", ref.edition), ("genre", ref.genre),
-                     ("note", ref.note)):
-        if val:
-            item[key] = val
-    if ref.pages:
-        if ref.pages.count:
-            item["number-of-pages"] = ref.pages.count
-        elif ref.pages.range_text():
-            item["page"] = ref.pages.range_text()
-    if ref.date and ref.date.year:
-        item["issued"] = {"date-parts": [[p for p in (ref.date.year, ref.date.month, ref.date.day) if p]]}
-    elif ref.date and ref.date.literal:
-        item["issued"] = {"literal": ref.date.literal}
-    for scheme, key in (("doi", "DOI"), ("isbn", "ISBN"), ("issn", "ISSN"), ("url", "URL")):
-        ident = ref.ident(scheme)
-        if ident is not None:
-            item[key] = ident.value
     return item
 
 
@@ -114,22 +61,22 @@ def run(args: argparse.Namespace) -> int:
     from normform.refs.api import parse_references
 
     out = sys.stdout
+    lines = _lines(args.file)
     if args.to == "csl-json":
-        for n, ref in enumerate(parse_references(_lines(args.file)), 1):
-            out.write(json.dumps(to_csl(ref, n), ensure_ascii=False) + "\n")
+        from normform.export.csljson import CslJsonExporter
+        exporter = CslJsonExporter()
+        for n, ref in enumerate(parse_references(lines), 1):
+            out.write(json.dumps(to_csl(ref, n, exporter), ensure_ascii=False) + "\n")
         return 0
     if args.to == "bibtex":
         from normform.export.bibtex import BibtexExporter
         exporter = BibtexExporter()
-        for n, ref in enumerate(parse_references(_lines(args.file)), 1):
-            if ref.key is None:
-                ref = ref.replace(key=f"line{n}")
-            text = exporter.export([ref]) if hasattr(exporter, "export") else exporter.entry(ref)
-            out.write(text.rstrip("\n") + "\n\n")
+        for n, ref in enumerate(parse_references(lines), 1):
+            out.write(exporter.record(ref, f"line{n}").rstrip("\n") + "\n\n")
         return 0
     from normform.export.text import HouseStyle
     style = HouseStyle()
-    for ref in parse_references(_lines(args.file)):
-        text = style.render(ref) if hasattr(style, "render") else style.format(ref)
-        out.write(" ".join(str(text).split()) + "\n")
+    for ref in parse_references(lines):
+        # one output line per input line, even when the record is empty
+        out.write(" ".join(style.record(ref).split()) + "\n")
     return 0

@@ -44,7 +44,6 @@ def token_features(text: str, kind: str) -> tuple[str, ...]:
     if kind in ("word", "initial", "num", "tex"):
         f.append("w=" + low)
         if len(low) > 3:
-            f.append("p3=" + low[:3])
             f.append("x3=" + low[-3:])
     else:
         f.append("w=" + (low if len(low) < 4 else kind))
@@ -84,9 +83,33 @@ def token_features(text: str, kind: str) -> tuple[str, ...]:
     return tuple(f)
 
 
+@lru_cache(maxsize=200_000)
+def _context_strings(text: str, kind: str) -> tuple[tuple[str, str], str, tuple[str, str], str]:
+    """What a token contributes to its neighbours' features (cached)."""
+    low = text.lower()
+    shape = "s=" + _shape(text) if kind != "url" else "s=url"
+    return (("w-1=" + low, "s-1" + shape[1:]), "w-2=" + low,
+            ("w+1=" + low, "s+1" + shape[1:]), "w+2=" + low)
+
+
 _OPEN = "([{"
 _CLOSE = ")]}"
 _QUOTES = "\"“”«»„"
+
+
+def _sentence_dot(tokens: list[Token], i: int) -> bool:
+    """Does the period at ``i`` end a sentence-like block rather than an
+    abbreviation ("Math.", "J.") or an initial?"""
+    prev = tokens[i - 1]
+    if prev.kind != "word":
+        return prev.kind not in ("initial",)
+    w = prev.text
+    if (w.lower() + ".") in lx.JOURNAL_WORDS or (w.lower() + ".") in lx.CONNECTORS:
+        return False
+    if len(w) <= 4 and w[0].isupper() and i + 1 < len(tokens) and tokens[i + 1].kind == "word" \
+            and tokens[i + 1].text[0].isupper():
+        return False   # "Am. Math. Mon." style abbreviations
+    return True
 
 
 _SEGLEN_BUCKET = (0, 1, 2, 3, 4, 4, 5, 5, 5, 6)
@@ -111,7 +134,7 @@ def _segments(tokens: list[Token]) -> tuple[list[int], list[bool], list[int]]:
         if not boundary:
             tok = tokens[i]
             k = tok.kind
-            if k == "punct" and (tok.text in ",;:()" or tok.text == "." and i > 0 and tokens[i - 1].kind != "initial"):
+            if k == "punct" and (tok.text in ",;:()" or tok.text == "." and i > 0 and _sentence_dot(tokens, i)):
                 boundary = True
             elif k in ("word", "num", "initial"):
                 words += 1
@@ -136,7 +159,7 @@ def sequence_features(tokens: list[Token], text: str) -> list[list[str]]:
     n = len(tokens)
     out: list[list[str]] = []
     static = [token_features(t.text, t.kind) for t in tokens]
-    lows = [t.text.lower() if len(t.text) < 20 else t.kind for t in tokens]
+    ctx = [_context_strings(t.text if len(t.text) < 20 else t.kind, t.kind) for t in tokens]
     depth = 0
     in_quote = False
     periods = 0      # sentence-like separators seen so far (". " after a non-initial)
@@ -171,17 +194,15 @@ def sequence_features(tokens: list[Token], text: str) -> list[list[str]]:
         if tok.end < len(text) and text[tok.end:tok.end + 1] == " ":
             f.append("spa")
         if i > 0:
-            f.append("w-1=" + lows[i - 1])
-            f.append("s-1=" + static[i - 1][1])
+            f += ctx[i - 1][0]
             if i > 1:
-                f.append("w-2=" + lows[i - 2])
+                f.append(ctx[i - 2][1])
         else:
             f.append("w-1=^")
         if i + 1 < n:
-            f.append("w+1=" + lows[i + 1])
-            f.append("s+1=" + static[i + 1][1])
+            f += ctx[i + 1][2]
             if i + 2 < n:
-                f.append("w+2=" + lows[i + 2])
+                f.append(ctx[i + 2][3])
         else:
             f.append("w+1=$")
         out.append(f)
@@ -201,7 +222,7 @@ def sequence_features(tokens: list[Token], text: str) -> list[list[str]]:
                     in_quote = not in_quote
             elif t == "," :
                 commas += 1
-            elif t in ".:" and i > 0 and tokens[i - 1].kind != "initial":
+            elif t == ":" or t == "." and i > 0 and _sentence_dot(tokens, i):
                 periods += 1
         elif tok.kind == "num" and _YEAR.match(t):
             seen_year = True

@@ -31,6 +31,10 @@ def _is_initials(piece: str) -> bool:
     return bool(words) and all(_INITIAL_ONLY.match(w) for w in words)
 
 
+def _core_words(piece: str) -> int:
+    return sum(1 for w in piece.split() if w not in lx.PARTICLES)
+
+
 def _ends_initial(piece: str) -> bool:
     words = piece.split()
     return bool(words) and bool(_INITIAL_ONLY.match(words[-1]))
@@ -62,7 +66,11 @@ def split_names(text: str) -> tuple[tuple[Name, ...], bool]:
     # Family-first with comma ("Family, A. B., Other, C.")?  Decide from the
     # first two chunks: a family chunk followed by an initials chunk.
     inverted = len(chunks) >= 2 and not _is_initials(chunks[0]) and _ends_initial(chunks[1]) \
-        and len(chunks[0].split()) <= 3
+        and _core_words(chunks[0]) <= 3 and not _ends_initial(chunks[0])
+    if not inverted and len(chunks) >= 2 and not _is_initials(chunks[0]) and _core_words(chunks[0]) <= 3 \
+            and chunks[1].split()[0].lower() in lx.GIVEN_NAMES and chunks[0].split()[-1].lower() not in lx.GIVEN_NAMES:
+        # "Quillfeather, Ada": the second piece starts with a known given name
+        inverted = True
     if not inverted and len(chunks) >= 2 and len(groups) >= 2 and all(g.count(",") == 1 for g in groups):
         # "Scholze, Peter and Weinstein, Jared": one comma inside every group
         inverted = all(len(g.split(",")[0].split()) <= 3 for g in groups)
@@ -92,7 +100,7 @@ def split_names(text: str) -> tuple[tuple[Name, ...], bool]:
 def _looks_given(chunk: str, family_chunk: str) -> bool:
     # "Scholze, Peter": one or two capitalised words, no particles
     words = chunk.split()
-    return 1 <= len(words) <= 3 and all(w[:1].isupper() for w in words) and len(family_chunk.split()) <= 3
+    return 1 <= len(words) <= 3 and all(w[:1].isupper() for w in words) and _core_words(family_chunk) <= 3
 
 
 def _family_given(family: str, given: str, suffix: str | None) -> Name:

@@ -18,7 +18,7 @@ FORMS = ("abbreviated", "full")
 
 
 def configure(parser: argparse.ArgumentParser) -> None:
-    parser.add_argument("input", metavar="INPUT", help="JSON Lines of CSL-JSON records, or a BibTeX file")
+    parser.add_argument("input", metavar="INPUT", help="CSL-JSON records (JSON Lines or one array), or a BibTeX file")
     parser.add_argument("--to", required=True, choices=FORMS, help="write every venue abbreviated (ISO 4) or in full")
     parser.add_argument("-o", "--output", metavar="OUT", help="output file (default: standard output)")
     parser.add_argument("--report", metavar="FILE", help="write the mapping report here (.json for JSON) instead of stderr")
@@ -122,7 +122,30 @@ class Run:
         return "\n".join(lines) + "\n"
 
 
+def _csl_array(text: str, run: Run, path: str) -> str:
+    """A CSL-JSON array file: rewrite in place, write the array back."""
+    try:
+        items = json.loads(text)
+    except json.JSONDecodeError as exc:
+        from normform.venues.errors import VenueTableError
+
+        raise VenueTableError(f"not JSON: {exc.msg}", line=exc.lineno, column=exc.colno,
+                              source=text, path=path) from None
+    run.style.learn_collection(i.get("container-title") for i in items
+                               if isinstance(i, dict) and isinstance(i.get("container-title"), str))
+    for item in items:
+        if not isinstance(item, dict):
+            continue
+        run.records += 1
+        venue = item.get("container-title")
+        if isinstance(venue, str) and venue.strip():
+            item["container-title"] = run.rewrite(venue)
+    return json.dumps(items, ensure_ascii=False, indent=2) + "\n"
+
+
 def _jsonl(text: str, run: Run, path: str) -> str:
+    if text.lstrip().startswith("["):
+        return _csl_array(text, run, path)
     records = []
     for number, line in enumerate(text.splitlines(), start=1):
         if not line.strip():

@@ -35,7 +35,7 @@ from rapidfuzz.distance import OSA
 from normform.model import Name, Provenance, Reference
 from normform.venues.text import STOPWORDS, key
 
-DEFAULT_THRESHOLD = 0.78
+from normform.venues.settings import DEFAULT_THRESHOLD  # noqa: E402  (re-exported)
 
 # Field weights: the title carries most of the identity of a work, authors
 # next; venue/volume/pages/year mostly separate near-duplicates.
@@ -112,6 +112,9 @@ class _Features:
     volume: str | None
     first_page: str | None
     raw: str                        # key of the raw line, for title-less queries
+    raw_words: frozenset[str] = frozenset()     # words of the raw line
+    numbers: frozenset[str] = frozenset()       # part numbers of the title
+    raw_numbers: frozenset[str] = frozenset()   # numbers anywhere on the raw line
 
 
 def _blocking_words(text_key: str) -> tuple[str, ...]:
@@ -131,13 +134,17 @@ def features(ref: Reference) -> _Features:
     first, _ = _pages_text(ref)
     return _Features(
         title=title,
-        title_words=_blocking_words(title or raw),
+        # the raw line's words block too: a parser may have cut or misplaced the title
+        title_words=_blocking_words(f"{title} {raw}" if raw else title),
         families=tuple(f for f in (_family_key(n) for n in (ref.authors or ref.editors)) if f),
         year=ref.year,
         venue=_venue_key(ref.container_title) if ref.container_title else "",
         volume=key(ref.volume) if ref.volume else None,
         first_page=key(first) if first else None,
         raw=raw,
+        numbers=_numbers(title),
+        raw_numbers=_numbers(raw),
+        raw_words=frozenset(raw.split()),
     )
 
 
@@ -169,12 +176,12 @@ def _title_score(q: _Features, r: _Features) -> float | None:
         s = fuzz.partial_ratio(r.title, q.raw) / 100.0 * 0.97
         if q.title and len(q.title) > 1.3 * len(r.title):
             s *= 0.9    # the line's own title is longer: the library title may be a part of it
-        nr = _numbers(r.title)
-        if nr and not nr <= _numbers(q.raw):
+        nr = r.numbers
+        if nr and not nr <= q.raw_numbers:
             s *= 0.7    # the library title's part numbers are not on the line
         best = s if best is None else max(best, s)
     if best is not None and q.title:
-        nq, nr = _numbers(q.title), _numbers(r.title)
+        nq, nr = q.numbers, r.numbers
         if nq and nr and nq != nr:
             best *= 0.7     # another volume or part of the same work
     return best
@@ -192,38 +199,65 @@ def _family_similarity(a: str, b: str) -> float:
 
 
 def _authors_score(q: _Features, r: _Features) -> float | None:
-    if not q.families or not r.families:
+    if not r.families:
         return None
+    if not q.families:
+        on_line = _authors_on_line(q, r)
+        return on_line if on_line > 0 else None
     credit = 0.0
     for f in q.families:
+        if f in r.families:
+            credit += 1.0
+            continue
         s = max(_family_similarity(f, g) for g in r.families)
         credit += 1.0 if s >= 0.75 else 0.5 * s
     # A parser may take title words for names, a renderer may cut the list to
     # "et al.": count against the shorter list.
     score = min(1.0, credit / min(len(q.families), len(r.families)))
-    if _family_similarity(q.families[0], r.families[0]) < 0.75:
+    if q.families[0] != r.families[0] and _family_similarity(q.families[0], r.families[0]) < 0.75:
         score *= 0.8   # first authors differ: another order, or a different work
-    return score
+    return max(score, _authors_on_line(q, r))
+
+
+def _authors_on_line(q: _Features, r: _Features) -> float:
+    """Share of the record's first three family names found among the raw line's words."""
+    if not q.raw_words or not r.families:
+        return 0.0
+    names = r.families[:3]
+    found = sum(1 for f in names if all(w in q.raw_words for w in f.split()))
+    return 0.95 * found / len(names)
 
 
 def _venue_score(q: _Features, r: _Features) -> float | None:
     if not q.venue or not r.venue:
         return None
-    if q.venue == r.venue:
+    return _venue_pair(q.venue, r.venue)
+
+
+@lru_cache(maxsize=65536)
+def _venue_pair(a: str, b: str) -> float:
+    # few distinct venue spellings in a collection: cache the pair
+    if a == b:
         return 1.0
     from normform.venues.style import fits
 
-    if fits(q.venue, r.venue) or fits(r.venue, q.venue):
+    if fits(a, b) or fits(b, a):
         return 0.95
-    return fuzz.ratio(q.venue, r.venue) / 100.0
+    return fuzz.ratio(a, b) / 100.0
 
 
-def score_pair(q: _Features, r: _Features) -> tuple[float, tuple[tuple[str, float], ...]]:
-    """Weighted average over the fields both sides carry, and the per-field scores."""
+def score_pair(q: _Features, r: _Features, beat: float = 0.0) -> tuple[float, tuple[tuple[str, float], ...]]:
+    """Weighted average over the fields both sides carry, and the per-field scores.
+
+    A pair whose title alone shows it cannot score above ``beat`` is cut short
+    (score 0): the matcher passes its best score so far.
+    """
     parts: list[tuple[str, float]] = []
     t = _title_score(q, r)
     if t is not None:
         parts.append(("title", t))
+        if WEIGHTS["title"] * t + (1.0 - WEIGHTS["title"]) < beat:
+            return 0.0, tuple(parts)
     a = _authors_score(q, r)
     if a is not None:
         parts.append(("authors", a))
@@ -326,7 +360,7 @@ class AuthorityMatcher:
             for w in f.title_words:
                 self._by_word[w].append(i)
             if f.families:
-                self._by_family[f.families[0]].append(i)
+                self._by_family[f.families[0].rsplit(" ", 1)[-1]].append(i)
         # Words in more than this many titles ("theory", "introduction") do not block.
         self._common = max(50, len(self.records) // 50)
 
@@ -353,7 +387,7 @@ class AuthorityMatcher:
             if used == _MAX_BLOCK_WORDS:
                 break
         if q.families:
-            posting = self._by_family.get(q.families[0], ())
+            posting = self._by_family.get(q.families[0].rsplit(" ", 1)[-1], ())
             if len(posting) <= self._common * 4:
                 for i in posting:
                     votes[i] += 1.5 + (1.0 if q.year is not None and self._feat[i].year == q.year else 0.0)
@@ -366,7 +400,7 @@ class AuthorityMatcher:
         cands = self.candidates(q)
         best, best_score, best_parts = None, 0.0, ()
         for i in cands:
-            s, parts = score_pair(q, self._feat[i])
+            s, parts = score_pair(q, self._feat[i], best_score)
             if s > best_score:
                 best, best_score, best_parts = i, s, parts
         if best is None:

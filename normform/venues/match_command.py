@@ -17,7 +17,7 @@ from pathlib import Path
 
 
 def configure(parser: argparse.ArgumentParser) -> None:
-    from normform.venues.match import DEFAULT_THRESHOLD
+    from normform.venues.settings import DEFAULT_THRESHOLD
 
     parser.add_argument("input", metavar="INPUT", help="reference lines (text), or CSL-JSON records (.jsonl)")
     parser.add_argument("--against", required=True, metavar="LIBRARY", help="the curated library: BibTeX (.bib) or CSL-JSON")

@@ -4,15 +4,23 @@ from __future__ import annotations
 
 from collections import Counter, defaultdict
 
-from normform.lint.refs_facts import identity_key, items, parsed
+from normform.lint.refs_facts import items, parsed, work_key
 from normform.lint.registry import rule
 
 
 @rule("duplicate-id", "catalogue", "error", "two entry files have the same id", scope="catalogue")
 def duplicate_id(entries, ctx):
+    import os
+
     first: dict[str, object] = {}
+    linted = {os.path.abspath(e.path) for e in entries}
     for entry in entries:
         if entry.id is None:
+            continue
+        named = ctx.known_ids.get(entry.id)   # a file beside it, not in this run, named after the id
+        if named and os.path.abspath(named) not in linted:
+            yield entry.finding(duplicate_id.rule, f"id {entry.id} is already used by {named}; "
+                                "ask the editors for a new id", ("id",))
             continue
         if entry.id in first:
             other = first[entry.id]
@@ -27,7 +35,7 @@ def duplicate_id(entries, ctx):
 
 @rule("see-also-missing", "catalogue", "warning", "see_also names an id that no entry has", scope="catalogue")
 def see_also_missing(entries, ctx):
-    known = {e.id for e in entries if e.id} | ctx.known_ids
+    known = {e.id for e in entries if e.id} | set(ctx.known_ids)
     for entry in entries:
         see = entry.data.get("see_also")
         for i, target in enumerate(see if isinstance(see, list) else []):
@@ -47,7 +55,7 @@ def reference_cited_differently(entries, ctx):
             ref = parsed(entry, item)
             if (ref.confidence or 0) < ctx.settings.min_confidence:
                 continue
-            key = identity_key(ref, item.text)
+            key = work_key(entry, item)
             if key[0] != "text":
                 groups[key].append((entry, item, " ".join(item.text.split())))
     for members in groups.values():

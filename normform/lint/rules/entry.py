@@ -64,3 +64,13 @@ def file_name_mismatch(entry, ctx):
         yield entry.finding(file_name_mismatch.rule,
                             f"the file is named {Path(entry.path).name!r} but holds {value}; "
                             f"rename it to {value}{Path(entry.path).suffix}", ("id",))
+
+
+@rule("empty-value", "entry", "error", "a title, formula, reference, URL, code or id is empty")
+def empty_value(entry, ctx):
+    from normform.lint.fields import BLOCK, strings
+
+    for path, value, role in strings(entry):
+        if role != BLOCK and not value.strip() and path[-1] not in ("note",):
+            yield entry.finding(empty_value.rule, f"`{'.'.join(map(str, path))}` is empty; "
+                                "fill it in or remove it", path)

@@ -21,6 +21,8 @@ def _index_in(text: str, line: int, column: int) -> int:
 @rule("formula-syntax", "formulas", "error", "a formula does not parse")
 def formula_syntax(entry, ctx):
     for fact in facts(entry):
+        if fact.crash:
+            ctx.failed.setdefault("formula-engine", f"{entry.path}: {fact.text!r}: {fact.crash}")
         if fact.error is None:
             continue
         exc = fact.error

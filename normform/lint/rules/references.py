@@ -4,7 +4,7 @@ from __future__ import annotations
 
 from normform.lint import services
 from normform.lint.findings import Fix
-from normform.lint.refs_facts import identity_key, items, parsed, reference_ids
+from normform.lint.refs_facts import items, parsed, reference_ids, work_key
 from normform.lint.registry import rule
 
 
@@ -87,7 +87,7 @@ def arxiv_malformed(entry, ctx):
 def reference_duplicate(entry, ctx):
     seen: dict[tuple, tuple] = {}
     for item in items(entry):
-        key = identity_key(parsed(entry, item), item.text)
+        key = work_key(entry, item)
         if key in seen:
             line = entry.where.line_col(entry.where.span(seen[key])[0])[0]
             yield entry.finding(reference_duplicate.rule, f"this cites the same work as the reference on "

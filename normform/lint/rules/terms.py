@@ -47,12 +47,12 @@ def first_index_mismatch(entry, ctx):
     if found is None:
         return
     start, current, count = found
-    fix = None
     if "first_index" in entry.data:
         path = ("first_index",)
         fix = Fix(f"set first_index to {start}", (entry.replace_value(path, start),))
     else:
         path = ("terms",)
+        fix = Fix(f"add first_index = {start}", (entry.insert_top_level_after("terms", "first_index", start),))
     yield entry.finding(first_index_mismatch.rule, f"the terms match the formula{'s' if count > 1 else ''} "
                         f"when the first term is a({start}), not a({current}); set first_index = {start}",
                         path, fix=fix)
