@@ -8,7 +8,9 @@ The input is the demo generator's invented legacy lines (fixed seed).  For
 each run it prints wall time, lines/s, the speed-up from 1 to N jobs, and
 peak memory: the largest single process (``ru_maxrss`` of the children)
 and the sampled sum over the main process and its workers (psutil, when
-installed).  As a yardstick from a general-purpose library measured in the
+installed).  On a shared machine wall time says little, so it also prints
+the CPU seconds used (all processes) and lines per CPU-second, and the load
+average during the run.  As a yardstick from a general-purpose library measured in the
 same run, it parses the produced ``references.bib`` with pybtex and prints
 the ratio of clean's lines/s to pybtex's entries/s.
 """
@@ -17,6 +19,7 @@ from __future__ import annotations
 
 import argparse
 import json
+import os
 import resource
 import shutil
 import subprocess
@@ -60,7 +63,9 @@ def _sample_rss(pid: int, stop: threading.Event, peak: list[int]) -> None:
 def run_clean(src: Path, out: Path, jobs: int, engine_args: list[str]) -> dict:
     if out.exists():
         shutil.rmtree(out)
-    before = resource.getrusage(resource.RUSAGE_CHILDREN).ru_maxrss
+    usage0 = resource.getrusage(resource.RUSAGE_CHILDREN)
+    before = usage0.ru_maxrss
+    load0 = os.getloadavg()[0]
     cmd = [sys.executable, "-m", "normform.cli", "clean", str(src), "-o", str(out),
            "--jobs", str(jobs), "--quiet", *engine_args]
     start = time.perf_counter()
@@ -74,9 +79,13 @@ def run_clean(src: Path, out: Path, jobs: int, engine_args: list[str]) -> dict:
     sampler.join()
     if proc.returncode != 0:
         raise SystemExit(f"clean failed ({proc.returncode}):\n{stderr[-3000:]}")
-    after = resource.getrusage(resource.RUSAGE_CHILDREN).ru_maxrss
+    usage1 = resource.getrusage(resource.RUSAGE_CHILDREN)
+    after = usage1.ru_maxrss
+    cpu = (usage1.ru_utime + usage1.ru_stime) - (usage0.ru_utime + usage0.ru_stime)
     summary = json.loads((out / "summary.json").read_text())
     return {"jobs": jobs, "seconds": seconds, "records": summary["records"],
+            "cpu_seconds": cpu, "load": (load0 + os.getloadavg()[0]) / 2,
+            "finish_seconds": summary["run"].get("finish_seconds"),
             "lines_per_s": summary["records"] / seconds,
             "max_process_rss_mb": max(after, before) / 1024,   # ru_maxrss is in KiB on Linux
             "sum_rss_mb": peak[0] / 2**20 if peak[0] else None,
@@ -121,6 +130,8 @@ def main() -> int:
             print(f"jobs={jobs}: {r['records']:,} records in {r['seconds']:.1f}s = "
                   f"{r['lines_per_s']:,.0f} lines/s ({r['lines_per_s'] / jobs:,.0f} per job); "
                   f"peak RSS largest process {r['max_process_rss_mb']:.0f} MB{sums}")
+            print(f"         CPU {r['cpu_seconds']:.0f}s = {r['records'] / r['cpu_seconds']:,.0f} lines per CPU-second; "
+                  f"clustering+report {r['finish_seconds']}s; machine load average ~{r['load']:.1f}")
             print(f"         {r['check']}")
         if len(runs) > 1:
             print(f"speed-up {runs[0]['jobs']} -> {runs[-1]['jobs']} jobs: "

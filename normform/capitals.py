@@ -86,12 +86,8 @@ def _occurrences(title: str, hint: str) -> list[tuple[int, int]]:
     return out
 
 
-def intervals(title: str, hints: tuple[str, ...] | list[str] = ()) -> list[tuple[int, int]]:
-    """Merged, sorted intervals of the title to protect: explicit hints plus automatic ones."""
-    spans = auto_intervals(title)
-    for hint in hints:
-        spans.extend(_occurrences(title, hint))
-    spans.sort()
+def _merge(spans: list[tuple[int, int]]) -> list[tuple[int, int]]:
+    spans = sorted(spans)
     merged: list[list[int]] = []
     for start, end in spans:
         if merged and start < merged[-1][1]:
@@ -99,6 +95,18 @@ def intervals(title: str, hints: tuple[str, ...] | list[str] = ()) -> list[tuple
         else:
             merged.append([start, end])
     return [(a, b) for a, b in merged]
+
+
+def intervals(title: str, hints: tuple[str, ...] | list[str] = ()) -> list[tuple[int, int]]:
+    """Merged, sorted intervals of the title to protect: explicit hints plus automatic ones.
+
+    Every occurrence of a protected text is protected (a second "Lie" as well as the
+    first), so that reading the braces back gives the same hints.
+    """
+    auto = auto_intervals(title)
+    first = _merge(auto + [span for hint in hints for span in _occurrences(title, hint)])
+    texts = dict.fromkeys(title[a:b] for a, b in first)
+    return _merge(auto + [span for text in texts for span in _occurrences(title, text)])
 
 
 def canonical_hints(title: str | None, hints: tuple[str, ...] | list[str] = ()) -> tuple[str, ...]:

@@ -9,6 +9,7 @@ and with ``ascii=True`` every non-ASCII letter becomes a braced command.
 from __future__ import annotations
 
 import re
+import unicodedata
 from functools import lru_cache
 
 _CARET = "\ue000"  # private-use stand-in: pylatexenc drops the argument of \^{}
@@ -40,6 +41,8 @@ def to_unicode(tex: str) -> str:
         return _SPACES.sub(" ", text).strip()
     tex = tex.replace("\\^{}", _CARET).replace("\\textasciicircum{}", _CARET)
     text = _reader().latex_to_text(tex).replace(_CARET, "^")
+    if not text.isascii():  # \v{a} gives a + combining caron; store the composed letter
+        text = unicodedata.normalize("NFC", text)
     return _SPACES.sub(" ", text).strip()
 
 
@@ -59,8 +62,25 @@ def to_latex(text: str, ascii: bool = False) -> str:
     """TeX source for ``text``; specials escaped, non-ASCII encoded when ``ascii``."""
     out = _SPECIAL_RE.sub(_escape, text)
     if ascii and not out.isascii():
-        out = "".join(ch if ch.isascii() else _encoder().unicode_to_latex(ch) for ch in out)
+        out = "".join(ch if ch.isascii() else _char_to_latex(ch) for ch in out)
     return out
+
+
+@lru_cache(maxsize=4096)
+def _char_to_latex(ch: str) -> str:
+    """TeX for one character, or the character itself when TeX would not read it back."""
+    tex = _encoder().unicode_to_latex(ch)
+    if not tex.isascii():  # pylatexenc has no entry: try base letter + accent command
+        parts = unicodedata.normalize("NFD", ch)
+        if len(parts) == 2 and parts[0].isascii() and parts[1] in _ACCENTS:
+            tex = "{\\" + _ACCENTS[parts[1]] + "{" + parts[0] + "}}"
+    return tex if tex.isascii() and to_unicode(tex) == ch else ch
+
+
+# Combining marks and the TeX accent commands that put them on a letter.
+_ACCENTS = {"\u0300": "`", "\u0301": "'", "\u0302": "^", "\u0303": "~", "\u0304": "=", "\u0306": "u",
+            "\u0307": ".", "\u0308": '"', "\u030a": "r", "\u030b": "H", "\u030c": "v", "\u0323": "d",
+            "\u0327": "c", "\u0328": "k"}
 
 
 def protect_literal_braces(text: str) -> str:

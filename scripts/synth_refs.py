@@ -192,6 +192,12 @@ def _title(r: random.Random) -> str:
         f"{en.capitalize()} with {a} {en}", f"The {a} {en} of a {n}",
         r.choice(_FOREIGN).format(x=r.choice(_FIELDS)),
         f"{a.capitalize()} {en} and {r.choice(_ADJ)} {r.choice(_EXTRA_NOUNS)} on {r.choice(_OBJ)}",
+        f"{fld.capitalize()}. Chapters {r.randint(1, 4)}–{r.randint(5, 9)}",
+        f"{fld.capitalize()}, Part {r.choice(('I', 'II', 'A', 'B', '1', '2'))}",
+        f"{nm}'s {en} in {fld}", f"{fld.capitalize()}. {r.choice(('Vol.', 'Tome', 'Band'))} {r.randint(1, 4)}: {a} {en}",
+        f"{a.capitalize()} {en} in {r.choice(('LEGO', 'Coq', 'Lean', 'HOL', 'ZFC', 'PA'))}",
+        f"Notes on {fld}", f"{fld.capitalize()} {r.choice(('I', 'II', 'III'))}",
+        f"Structures de {r.choice(_FIELDS)}", f"{en.capitalize()} de {a} {en}",
     )
     t = r.choice(forms)
     if r.random() < 0.2:
@@ -258,8 +264,13 @@ def _invented_journal(r: random.Random) -> tuple[str, str]:
     f = r.choice(_FIELDS)
     f = " ".join(w[:1].upper() + w[1:] for w in f.split())
     full = r.choice(_JPAT).format(F=f)
-    abbr = " ".join(_JABBR.get(w, w) for w in full.replace(" of ", " ").replace(" on ", " ").replace(" in ", " ")
-                    .replace(" for ", " ").split())
+    words = full.replace(" of ", " ").replace(" on ", " ").replace(" in ", " ").replace(" for ", " ").split()
+    if r.random() < 0.5:
+        abbr = " ".join(_JABBR.get(w, w) for w in words)
+    else:   # truncation abbreviations of any word ("Enum. Res. Not.")
+        abbr = " ".join(w if len(w) <= 4 else w[: r.randint(3, 5)].rstrip("aeiou") + "." for w in words)
+    if r.random() < 0.1:
+        abbr += r.choice((" (2)", " (3)", " Ser. A", " Ser. B", " (N.S.)"))
     return full, abbr
 
 
@@ -495,7 +506,8 @@ def align(text: str, rec: dict) -> list[tuple[int, int, str]] | None:
         parts = rec["issued"]["date-parts"][0]
         if len(parts) > 1:
             for j in range(max(0, yhits[0] - 3), min(len(toks), yhits[0] + 1)):
-                if keys[j] in lx.MONTHS and lx.MONTHS[keys[j]] == parts[1] and taken[j] is None:
+                if (keys[j] in lx.MONTHS and lx.MONTHS[keys[j]] == parts[1] or keys[j] == str(parts[1])) \
+                        and taken[j] is None:
                     taken[j] = "date"
     for key in ("volume", "issue", "collection-number", "edition"):
         if key not in rec:
@@ -603,6 +615,12 @@ def render_pybtex(style_name: str, rec: dict) -> str | None:
     for k, bk in m.items():
         if k in rec:
             fields[bk] = rec[k]
+    parts = rec["issued"]["date-parts"][0]
+    if len(parts) > 1:
+        fields["month"] = ("jan feb mar apr may jun jul aug sep oct nov dec".split()[parts[1] - 1]
+                           if rec["id"][-1] in "02468" else str(parts[1]))
+    if "edition" in rec and rec["id"][-1] in "13579":
+        fields["edition"] = {"2": "Second", "3": "Third", "4": "Fourth", "5": "Fifth"}.get(rec["edition"], rec["edition"])
     if "page" in rec:
         fields["pages"] = rec["page"].replace("-", "--")
     if typ in ("phdthesis", "techreport"):

@@ -35,8 +35,8 @@ def exact(values: list) -> list:
 
 def test_fixture_counts():
     kinds = [c["kind"] for c in CASES]
-    assert (kinds.count("recurrence"), kinds.count("ogf"), kinds.count("egf"), kinds.count("asymptotic")) == \
-        (25, 16, 13, 9)
+    assert (kinds.count("recurrence"), kinds.count("ogf"), kinds.count("egf"), kinds.count("asymptotic"),
+            kinds.count("closed-form"), kinds.count("identity")) == (25, 16, 13, 9, 40, 17)
 
 
 @pytest.mark.parametrize("case", by_kind("recurrence"))
@@ -116,4 +116,20 @@ def test_asymptotic_trend_rejects_a_wrong_growth_rate(case):
     # the same claim against terms that grow twice as fast per step must not agree
     points = {row["n"]: int(value) * 2 ** row["n"] for row, value in zip(case["vars"], case["lhs_values"])}
     v = check_formula(case["text"], points)
-    assert v.status == "disagrees" and v.heuristic, v.describe()
+    # an explicit left side (n!, a sum) is compared exactly first; a(n) only by the trend
+    assert v.status == "disagrees", v.describe()
+    assert v.heuristic or "left side" in v.reason
+
+
+@pytest.mark.parametrize("case", by_kind("closed-form") + by_kind("identity"))
+def test_closed_forms_and_identities_in_n(case):
+    points = {row["n"]: value for row, value in zip(case["vars"], exact(case["expect"]))}
+    v = check_formula(case["text"], points)
+    assert v.status == "agrees" and v.compared == len(points), v.describe()
+    if case["kind"] == "identity":
+        assert "both sides" in v.reason
+    wrong = dict(points)
+    last = max(wrong)
+    wrong[last] += 1
+    v = check_formula(case["text"], wrong)
+    assert v.status == "disagrees" and v.index == last, v.describe()

@@ -132,7 +132,7 @@ def _grow(children):
             return f"({a})({b})", sa * sb  # implicit product
         if op == "·":
             return f"({a})·({b})", sa * sb
-        return f"({a})/({b})", sa / sb
+        return f"({a})/(({b})^2 + 1)", sa / (sb ** 2 + 1)  # a denominator that is never 0
 
     def power(pair):
         (a, sa), e = pair

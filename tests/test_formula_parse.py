@@ -173,3 +173,32 @@ def test_import_is_lazy():
     code = "import normform, sys; print('lark' in sys.modules, 'normform.formula.parser' in sys.modules)"
     out = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True, check=True).stdout
     assert out.split() == ["False", "False"]
+
+
+def test_table_driver_gives_the_same_trees_as_lark():
+    # parser.py drives lark's own LALR tables itself for speed; lark's driver must agree.
+    import random
+
+    from normform.formula import parser as P
+
+    driver = P._get_parser()
+    assert isinstance(driver, P._TableDriver)
+    rng = random.Random(7)
+    pieces = ["n", "2", "k", "x", "(n+1)", "a(n-1)", "binomial(n,k)", "n!", "sum_{k=0}^{n} k", "-", "+",
+              "*", "/", "^", "mod", " ", "2n", "...", "(", ")", "√", "[", "]", "=", ", ", "for n >= 1"]
+    texts = [c["text"] for c in VALID + MALFORMED]
+    texts += ["".join(rng.choice(pieces) for _ in range(rng.randint(1, 9))) for _ in range(1500)]
+
+    def outcome(text):
+        try:
+            return P.parse_statement(text)
+        except FormulaError as exc:
+            return ("error", exc.line)
+
+    try:
+        ours = [outcome(t) for t in texts]
+        P._parser = driver.lark
+        theirs = [outcome(t) for t in texts]
+    finally:
+        P._parser = driver
+    assert ours == theirs

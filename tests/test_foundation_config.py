@@ -7,7 +7,7 @@ from normform.ids import make, link
 
 
 def test_no_config_gives_empty_table(tmp_path):
-    assert load_config(tmp_path) == {} or find_config(tmp_path) is not None  # a parent may hold one
+    assert find_config(tmp_path) is None and load_config(tmp_path) == {}
     (tmp_path / "pyproject.toml").write_text("[project]\nname = 'x'\n")
     assert find_config(tmp_path) != tmp_path / "pyproject.toml"
 

@@ -148,3 +148,14 @@ def test_convert_command(tmp_path):
     assert _run(str(tmp_path / "missing.bib"), "--to", "text").returncode == 2
     res = _run(str(good), "--to", "text", "--style", "american-mathematical-society-numeric")
     assert res.returncode == 0 and "Alone" in res.stdout
+
+
+def test_demo_file_converts_cleanly_to_every_format():
+    from pathlib import Path
+    demo = Path(__file__).parent / "fixtures" / "foundation" / "qsem-demo.bib"
+    for fmt in ("bibtex", "csl-json", "text"):
+        res = _run(str(demo), "--to", fmt)
+        assert res.returncode == 0 and res.stderr == "", res.stderr
+    text = _run(str(demo), "--to", "text").stdout.splitlines()
+    assert len(text) == 6
+    assert text[4].startswith("T. Wren and H. de la Plume, Jr., Counting Motzkin paths by peaks, in: Proceedings")

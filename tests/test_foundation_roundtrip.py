@@ -19,7 +19,7 @@ from normform.readers.csljson import from_csl, read_csljson
 
 FIXTURES = Path(__file__).parent / "fixtures" / "foundation"
 GOLD = [json.loads(line) for line in (FIXTURES / "gold-sample.jsonl").read_text("utf-8").splitlines()]
-SETTINGS = settings(max_examples=150, deadline=None, suppress_health_check=[HealthCheck.too_slow])
+SETTINGS = settings(max_examples=80, deadline=None, suppress_health_check=[HealthCheck.too_slow])
 
 
 def bib_round(refs, unicode=True):

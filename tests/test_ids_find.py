@@ -48,6 +48,11 @@ def test_single_forms(text, expected):
     assert got[0][:2] == expected
 
 
+def test_isbn_list_after_one_keyword():
+    got = found("ISBN 978-0-306-40615-7, 0-19-853762-X; 1994")
+    assert [g[:2] for g in got] == [("isbn", "9780306406157"), ("isbn", "019853762X")]
+
+
 def test_category_goes_to_detail():
     assert found("arXiv:1006.0367v3 [math.CO]")[0][2] == "math.CO"
 

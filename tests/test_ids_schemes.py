@@ -71,6 +71,12 @@ def test_arxiv_errors(bad, words):
     assert words in str(info.value)
 
 
+def test_arxiv_subject_class_goes_to_detail():
+    assert arxiv.split("arXiv:1006.0367v3 [math.CO]") == ("1006.0367v3", "math.CO")
+    ident = make("arxiv", "arXiv:1006.0367v3 [math.CO]")
+    assert (ident.value, ident.detail, ident.valid) == ("1006.0367v3", "math.CO", True)
+
+
 def test_arxiv_version_and_link():
     assert arxiv.base("1006.0367v3") == "1006.0367"
     assert arxiv.version("1006.0367v3") == 3

@@ -53,6 +53,11 @@ def test_reference_incomplete_structured():
     complete = table.replace('container_title = "Fibonacci Quart."',
                              'container_title = "Fibonacci Quart.", year = 2003, pages = "112-130"')
     assert slugs(complete, "reference-incomplete") == []
+    # without a kind, a journal with a volume is taken as an article
+    untyped = BASE + 'references = [{ title = "T", container_title = "Discrete Math.", volume = "3" }]\n'
+    assert slugs(untyped, "reference-incomplete") == ["reference-incomplete"]
+    assert slugs(BASE + 'references = [{ title = "T", publisher = "QSEM Press", year = 2001 }]\n',
+                 "reference-incomplete") == []
 
 
 def test_reference_incomplete_parsed_line(fake_parser):

@@ -65,3 +65,23 @@ def test_syntax_errors_and_json_entries_give_valid_sarif(validator, tmp_path):
     assert not list(validator.iter_errors(log))
     rules = sorted(r["ruleId"] for r in log["runs"][0]["results"])
     assert rules == ["file-syntax", "term-not-integer", "too-few-terms", "trailing-whitespace"]
+
+
+def test_skipped_rules_are_valid_notifications(validator):
+    import io
+
+    from normform.lint.entry import parse_entry
+    from normform.lint.registry import select_rules
+    from normform.lint.report import sarif
+
+    from lint_support import BASE, findings
+
+    found = findings(BASE.replace('"Test entry"', '"Test entry "'), select=["trailing-whitespace"])
+    out = io.StringIO()
+    entry = parse_entry("Q000100.toml", BASE)
+    sarif(found, select_rules(["text"]), out, version="0", sources={"Q000100.toml": entry.where},
+          skipped={"formula-syntax": "normform.parse_formula is not available"})
+    log = json.loads(out.getvalue())
+    assert not list(validator.iter_errors(log))
+    note = log["runs"][0]["invocations"][0]["toolExecutionNotifications"][0]
+    assert note["descriptor"]["id"] == "formula-syntax"

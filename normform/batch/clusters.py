@@ -20,7 +20,7 @@ import itertools
 import sqlite3
 from typing import Iterator
 
-from rapidfuzz import fuzz
+from rapidfuzz import fuzz, process
 
 WINDOW = 60          # in a huge block compare each title with its neighbours only
 BIG_BLOCK = 400
@@ -47,12 +47,14 @@ class UnionFind:
             self.parent.setdefault(lo, lo)
 
 
-def _block_pairs(db: sqlite3.Connection, column: str, where: str) -> Iterator[tuple[tuple, tuple]]:
-    """Candidate pairs ``((seq, title, author, year), ...)`` within blocks of equal ``column``.
+def _similar_pairs(db: sqlite3.Connection, column: str, where: str,
+                   similarity: float) -> Iterator[tuple[tuple, tuple]]:
+    """Pairs ``((seq, title, author, year), ...)`` with similar titles, within blocks of equal ``column``.
 
     Rows arrive sorted by (key, title), so memory is bounded by ``BIG_BLOCK``:
-    a small block yields all its pairs, a big one a sliding window of
-    ``WINDOW`` title-neighbours.
+    a small block compares all its pairs, a big one each title with its
+    ``WINDOW`` predecessors.  The comparisons run inside rapidfuzz
+    (``process.extract``), not in a Python loop.
     """
     cur = db.execute(f"SELECT {column}, seq, title, author, year FROM keys WHERE {where} "
                      f"ORDER BY {column}, title, seq")
@@ -63,13 +65,29 @@ def _block_pairs(db: sqlite3.Connection, column: str, where: str) -> Iterator[tu
             if len(buf) > BIG_BLOCK:
                 break
         if len(buf) <= BIG_BLOCK:
-            yield from itertools.combinations(buf, 2)
+            for i in range(len(buf) - 1):
+                yield from _hits(buf[i], buf[i + 1:], similarity)
             continue
         window: collections.deque = collections.deque(maxlen=WINDOW)
         for row in itertools.chain(buf, (r[1:] for r in group)):
-            for other in window:
-                yield other, row
+            yield from _hits(row, list(window), similarity)
             window.append(row)
+
+
+def _hits(row: tuple, others: list[tuple], similarity: float) -> Iterator[tuple[tuple, tuple]]:
+    if not others:
+        return
+    titles = [other[1] for other in others]
+    found: set[int] = set()
+    for scorer in (fuzz.ratio, fuzz.token_sort_ratio):
+        for _, _, index in process.extract(row[1], titles, scorer=scorer, score_cutoff=similarity,
+                                           limit=None):
+            found.add(index)
+    numbers = _numbers(row[1])
+    for index in sorted(found):
+        other = others[index]
+        if _numbers(other[1]) == numbers:
+            yield other, row
 
 
 def _same_key_runs(cur) -> Iterator[Iterator[int]]:
@@ -106,12 +124,13 @@ def find(db: sqlite3.Connection, similarity: float = 90.0) -> list[list[int]]:
     """Clusters of two or more record numbers, each sorted, ordered by first member."""
     uf = UnionFind()
     # 1. same first author: similar titles, compatible years
-    for (sa, ta, _, ya), (sb, tb, _, yb) in _block_pairs(db, "author", "author != '' AND title != ''"):
-        if _years_agree(ya, yb) and similar_titles(ta, tb, similarity):
+    for (sa, _, _, ya), (sb, _, _, yb) in _similar_pairs(db, "author", "author != '' AND title != ''",
+                                                         similarity):
+        if _years_agree(ya, yb):
             uf.union(sa, sb)
     # 2. same title start: similar titles, compatible years, compatible authors
-    for (sa, ta, aa, ya), (sb, tb, ab, yb) in _block_pairs(db, "prefix", "prefix != ''"):
-        if not (_years_agree(ya, yb) and similar_titles(ta, tb, similarity)):
+    for (sa, ta, aa, ya), (sb, tb, ab, yb) in _similar_pairs(db, "prefix", "prefix != ''", similarity):
+        if not _years_agree(ya, yb):
             continue
         authors_ok = not aa or not ab or fuzz.ratio(aa, ab, score_cutoff=70)
         # a long, near-identical title in the same year outweighs a garbled author

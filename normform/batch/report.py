@@ -15,6 +15,9 @@ from pathlib import Path
 
 from normform.batch.rowhtml import diff_html
 
+CLUSTER_LIMIT = 5000      # cluster sections in the page (all are in clusters.jsonl)
+MEMBER_LIMIT = 50         # rows shown per cluster section
+
 KIND_ORDER = ("article", "book", "chapter", "paper", "thesis", "report", "webpage",
               "software", "unpublished", "other")
 
@@ -95,15 +98,22 @@ def _cluster_sections(handle, clusters: Path, row_limit: int) -> dict[int, int]:
         for line in src:
             cluster = json.loads(line)
             n = cluster["cluster"]
+            if n > CLUSTER_LIMIT:
+                for m in cluster["members"]:
+                    if m["seq"] <= row_limit:
+                        where[m["seq"]] = n
+                continue
             canon = cluster["canonical"]
             handle.write(f'<section class="cluster" id="c{n}" aria-labelledby="c{n}-h">'
                          f'<h3 id="c{n}-h">Cluster {n}: {cluster["size"]} citations of one work</h3>'
                          f'<p class="canon"><span class="tag">canonical</span> {escape(canon["house"])}</p>'
                          '<table><thead><tr><th scope="col">origin</th><th scope="col">as typed</th>'
                          '<th scope="col">cleaned</th><th scope="col">confidence</th></tr></thead><tbody>')
-            for m in cluster["members"]:
+            for i, m in enumerate(cluster["members"]):
                 if m["seq"] <= row_limit:
                     where[m["seq"]] = n
+                if i >= MEMBER_LIMIT:
+                    continue
                 left, right = diff_html(m["text"], m["house"])
                 conf = "–" if m["confidence"] is None else f'{m["confidence"]:.2f}'
                 origin = f'{m["file"]}:{m["line"]}' if m["line"] is not None else m["file"]
@@ -112,6 +122,9 @@ def _cluster_sections(handle, clusters: Path, row_limit: int) -> dict[int, int]:
                 handle.write(f'<tr{mark}><td class="n"><a href="#r{m["seq"]}">{escape(origin)}</a></td>'
                              f'<td class="orig">{left}</td><td class="clean">{right}</td>'
                              f'<td class="conf">{conf}</td></tr>')
+            if cluster["size"] > MEMBER_LIMIT:
+                handle.write(f'<tr><td colspan="4" class="note">… and {cluster["size"] - MEMBER_LIMIT:,} more '
+                             'members in clusters.jsonl</td></tr>')
             handle.write("</tbody></table></section>\n")
     return where
 
@@ -161,6 +174,9 @@ def write(path: Path, summary: dict, *, rows: Path, formulas: Path, clusters: Pa
             out.write("</tbody></table></section>")
         out.write(f'<section id="clusters" aria-label="Duplicate clusters"><h2>Duplicate clusters '
                   f'({summary["clusters"]:,})</h2>')
+        if summary["clusters"] > CLUSTER_LIMIT:
+            out.write(f'<p class="note">Showing the first {CLUSTER_LIMIT:,} clusters; all are in '
+                      'clusters.jsonl.</p>')
         where = _cluster_sections(out, clusters, row_limit)
         out.write("</section></main>")
         # record -> cluster, so the table can link each row to its cluster page

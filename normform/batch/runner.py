@@ -185,6 +185,7 @@ def _finish(store: Store, paths: list[Path], read: inputs.ReadStats, refs: int, 
             settings: Settings, similarity: float, seconds: float, err: TextIO, quiet: bool) -> CleanResult:
     from normform.batch import report
 
+    finish_started = time.monotonic()
     store.close_parts()
     work, outdir = store.work, store.outdir
     db = store.db
@@ -225,10 +226,13 @@ def _finish(store: Store, paths: list[Path], read: inputs.ReadStats, refs: int, 
     summary["problems"] = read.problems
     summary["problem_count"] = read.problem_count
     summary["invalid_utf8"] = [{"file": f, "line": ln, "byte_offset": off} for f, ln, off in read.invalid_utf8]
-    summary_text = json.dumps(summary, ensure_ascii=False, sort_keys=True, indent=2) + "\n"
     report_tmp = work / "report.part"
     report.write(report_tmp, summary, rows=store.part("rows"), formulas=store.part("formulas"),
                  clusters=cluster_tmp, row_limit=settings.report_rows)
+    # timing last: clustering and the report are part of the run
+    finish = time.monotonic() - finish_started
+    summary["run"] = stats.run_block(totals["records"], seconds + finish, finish)
+    summary_text = json.dumps(summary, ensure_ascii=False, sort_keys=True, indent=2) + "\n"
 
     atomic_write(work / "summary.part", summary_text)
     store.set_phase("renaming")

@@ -67,6 +67,10 @@ def summary(totals: dict, *, lines_in: int, blank: int, clusters: int, clustered
         "clusters": clusters, "records_in_clusters": clustered,
         "formulas": totals["formulas"], "formulas_failed": totals["formulas_failed"],
         # The only part that differs between runs of the same input.
-        "run": {"seconds": round(seconds, 3),
-                "lines_per_second": round(totals["records"] / seconds, 1) if seconds > 0 else None},
+        "run": run_block(totals["records"], seconds, 0.0),
     }
+
+
+def run_block(records: int, seconds: float, finish: float) -> dict:
+    return {"seconds": round(seconds, 3), "finish_seconds": round(finish, 3),
+            "lines_per_second": round(records / seconds, 1) if seconds > 0 else None}

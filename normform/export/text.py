@@ -102,6 +102,8 @@ class HouseStyle(Exporter):
                 out.append(f"vol. {ref.volume}")
             if ref.genre:
                 out.append(ref.genre)
+            elif ref.kind is Kind.THESIS:
+                out.append("thesis")
             for piece in (ref.publisher, ref.place, year):
                 if piece:
                     out.append(piece)

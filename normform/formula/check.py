@@ -17,7 +17,7 @@ bits per term, seconds per check); no input makes this hang or raise.
 from __future__ import annotations
 
 import decimal as D
-from dataclasses import asdict, dataclass
+from dataclasses import asdict, dataclass, replace
 from fractions import Fraction
 from typing import Any, Mapping, Sequence
 
@@ -160,6 +160,9 @@ def check_formula(formula: Any, terms: Sequence[Any] | Mapping[int, Any], first_
     except (ValueError, ArithmeticError, TypeError) as exc:
         # FormulaError is a ValueError: report its position and message
         return Verdict("cannot-check", _error_text(exc), formula=text)
+    except Exception as exc:  # a batch of entries must never stop at one formula
+        return Verdict("cannot-check", f"internal error while checking: {type(exc).__name__}: {exc}",
+                       formula=text)
 
 
 def _error_text(exc: Exception) -> str:
@@ -198,13 +201,11 @@ def _check(formula: Any, terms: Any, first_index: int, initial: Any, kind: str |
         verdict = _check_closed(plan, listed, limits)
         if plan.also is not None and verdict.status == "agrees":
             # an identity: the left side must give the terms too
-            from dataclasses import replace as _replace
-            left = _check_closed(_replace(plan, expr=plan.also, also=None), listed, limits)
+            left = _check_closed(replace(plan, expr=plan.also, also=None), listed, limits)
             if left.status != "agrees":
-                verdict = _replace(left, reason="; ".join(r for r in ("left side", left.reason) if r))
+                verdict = replace(left, reason="; ".join(r for r in ("left side", left.reason) if r))
             else:
-                verdict = _replace(verdict, reason="; ".join(r for r in (verdict.reason, "both sides checked") if r))
-    from dataclasses import replace
+                verdict = replace(verdict, reason="; ".join(r for r in (verdict.reason, "both sides checked") if r))
     reason = "; ".join(r for r in (verdict.reason, note) if r)
     return replace(verdict, formula=text, reason=reason)
 
@@ -240,7 +241,6 @@ def _check_closed(plan: T.Plan, listed: dict[int, Number], limits: R.Limits) -> 
             break
     v = _compare(listed, computed, kind, skip)
     if skip and v.status != "disagrees":
-        from dataclasses import replace
         v = replace(v, reason=f"{len(skip)} listed term(s) outside the formula's range clause were skipped")
     return v
 
@@ -362,7 +362,6 @@ def _check_series(formula: Any, plan: T.Plan, listed: dict[int, Number], kind: s
         except (T.CannotCompute, R.RecurrenceError):
             alt = None
         if alt is not None and alt.status == "agrees":
-            from dataclasses import replace
             name = "an exponential" if other == "egf" else "an ordinary"
             return replace(alt, reason=f"read as {name} generating function (the text has no label)")
     return verdict
@@ -468,6 +467,13 @@ def approximate(node: A.Node, env: dict[str, int]) -> D.Decimal:
 
 
 def _check_trend(plan: T.Plan, listed: dict[int, Number], limits: R.Limits) -> Verdict:
+    lhs = plan.lhs
+    if lhs is not None and not A.seq_refs(lhs) and A.free_symbols(lhs) <= {plan.var}:
+        # an explicit left side (binomial(2n,n) ~ ...) must be the listed sequence itself
+        exact = _check_closed(replace(plan, expr=lhs, also=None, initial={}), listed, limits)
+        if exact.status == "disagrees":
+            return replace(exact, kind="asymptotic",
+                           reason="; ".join(r for r in ("the left side is not the listed sequence", exact.reason) if r))
     points: list[tuple[int, float]] = []
     for n, value in listed.items():
         if plan.condition is not None:

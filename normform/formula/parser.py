@@ -93,6 +93,23 @@ def _passthrough(rule) -> int | None:
     return kept[0] if len(kept) == 1 else None
 
 
+def _direct(rule, builder) -> tuple[Any, tuple[int, ...] | None]:
+    """(our callback, kept child positions) when a reduction can call the builder
+    directly instead of through lark's wrappers; (None, None) otherwise."""
+    opts = rule.options
+    name = rule.alias or opts.template_source or rule.origin.name
+    if not hasattr(type(builder), name) or hasattr(_LarkTransformer, name):
+        return None, None
+    if opts.expand1 and not rule.alias:
+        return None, None
+    if any(not sym.is_term and sym.name.startswith("_") for sym in rule.expansion):
+        return None, None  # children of helper rules are spliced in by lark's filter
+    if opts.keep_all_tokens:
+        return getattr(builder, name), None
+    keep = tuple(i for i, sym in enumerate(rule.expansion) if not (sym.is_term and sym.filter_out))
+    return getattr(builder, name), (None if len(keep) == len(rule.expansion) else keep)
+
+
 class _TableDriver:
     """A small LALR(1) driver over lark's own parse tables, lexer patterns and rule
     callbacks for this grammar. Same tables and tree as ``lark.Lark.parse``, without
@@ -112,7 +129,9 @@ class _TableDriver:
                 if action is Shift:
                     row[sym] = (True, arg)
                 else:
-                    row[sym] = (False, (len(arg.expansion), arg.origin.name, callbacks[arg], _passthrough(arg)))
+                    method, keep = _direct(arg, larkp.options.transformer)
+                    row[sym] = (False, (len(arg.expansion), arg.origin.name, method or callbacks[arg],
+                                        _passthrough(arg), keep))
             states[state] = row
         self.states = states
         self.start = table.start_states["start"]
@@ -178,9 +197,9 @@ class _TableDriver:
                     row = states[act[1]]
                     values.append(tok)
                     break
-                size, origin, callback, keep = act[1]
-                if keep is not None:  # `?rule` with one kept child: the child is the value
-                    value = values[keep - size]
+                size, origin, callback, through, keep = act[1]
+                if through is not None:  # `?rule` with one kept child: the child is the value
+                    value = values[through - size]
                     del values[-size:]
                     del stack[-size:]
                     values.append(value)
@@ -189,6 +208,8 @@ class _TableDriver:
                         children = values[-size:]
                         del values[-size:]
                         del stack[-size:]
+                        if keep is not None:  # drop punctuation tokens, as lark's child filter does
+                            children = [children[i] for i in keep]
                     else:
                         children = []
                     values.append(callback(children))
@@ -417,21 +438,34 @@ class _Build(_LarkTransformer):
         self.bound_names: set[str] = set()
 
     # --- statement
+    def list_first(self, ch):
+        return [ch[0]]
+
+    def list_more(self, ch):
+        items = ch[0]
+        items.append(ch[1])
+        return items
+
+    def list_more2(self, ch):
+        items = ch[0]
+        items.append(ch[1])
+        items.append(ch[2])
+        return items
+
     def start(self, ch):
-        label = None
-        segs = []
-        for c in ch:
-            if getattr(c, "type", None) == "LABEL":
-                label = c
-            elif isinstance(c, _Seg):
-                segs.append(c)
-        return (label, segs)
+        if len(ch) >= 2 and getattr(ch[0], "type", None) == "LABEL":
+            return (ch[0], ch[1])
+        return (None, ch[0])
 
     def seg(self, ch):
-        return _Seg("seg", ch[0], tuple(ch[1:]), _join(*ch))
+        return _Seg("seg", ch[0], (), _sp(ch[0]))
+
+    def seg_tail(self, ch):
+        seg = ch[0]
+        return _Seg(seg.kind, seg.rel, seg.tails + (ch[1],), _join(seg, ch[1][1]))
 
     def seg_with(self, ch):
-        return _Seg("with", ch[0], tuple(ch[1:]), _join(*ch))
+        return _Seg("with", ch[0], (), _sp(ch[0]))
 
     def seg_for(self, ch):
         return _Seg("for", ch[0], (), _join(*ch))
@@ -463,17 +497,12 @@ class _Build(_LarkTransformer):
         return A.Parity(ch[0], False, span=_join(*ch))
 
     def rel(self, ch):
-        operands, ops, modulus, mod_span = [ch[0]], [], None, None
-        i = 1
-        while i < len(ch):
-            c = ch[i]
-            if getattr(c, "type", None) == "MODPAREN":
-                modulus, mod_span = ch[i + 1], _join(c, ch[i + 1])
-                break
-            ops.append(c)
-            operands.append(ch[i + 1])
-            i += 2
-        return _Rel(tuple(ops), tuple(operands), modulus, mod_span, _join(*ch))
+        chain = ch[0]
+        operands, ops = tuple(chain[0::2]), tuple(chain[1::2])
+        modulus = mod_span = None
+        if len(ch) == 3:
+            modulus, mod_span = ch[2], _join(ch[1], ch[2])
+        return _Rel(ops, operands, modulus, mod_span, _join(operands[0], operands[-1], modulus))
 
     _REL = {"≠": "!=", "<>": "!=", "≤": "<=", "⩽": "<=", "≥": ">=", "⩾": ">=", "∼": "~", "≡": "=="}
 
@@ -488,18 +517,18 @@ class _Build(_LarkTransformer):
 
     # the chain is one Python list, appended to as the parser reduces (no tree nodes)
     def chain_first(self, ch):
-        return ch[0]
+        if len(ch) == 1:
+            return [ch[0]]
+        signs = ch[0]
+        signs.append(ch[1])
+        return signs
 
     def chain_op(self, ch):
         chain = ch[0]
         chain.append(ch[1])
-        chain.extend(ch[2])
-        return chain
-
-    def chain_dots(self, ch):
-        chain = ch[0]
-        chain.append(ch[1])
-        chain.append(ch[2])
+        if len(ch) == 4:
+            chain.extend(ch[2])
+        chain.append(ch[-1])
         return chain
 
     def chain_juxt(self, ch):
@@ -507,18 +536,13 @@ class _Build(_LarkTransformer):
         chain.append(ch[1])
         return chain
 
-    def signed_unit(self, ch):
+    def signs_first(self, ch):
         return [ch[0]]
 
-    def signed_sign(self, ch):
-        rest = ch[1]
-        rest.insert(0, ch[0])
-        return rest
-
-    def binop(self, ch):
-        return ch[0]
-
-    bbinop = binop
+    def signs_more(self, ch):
+        signs = ch[0]
+        signs.append(ch[1])
+        return signs
 
     def factorial(self, ch):
         return _mark(A.Factorial(ch[0], False, span=_join(*ch)), ch[0])
@@ -553,11 +577,11 @@ class _Build(_LarkTransformer):
         return A.Symbol(name, span=_sp(ch[0]))
 
     def apply(self, ch):
-        node = _Apply(_t(ch[0]), ch[1], _join(ch[0], *ch[1]))
+        node = _Apply(_t(ch[0]), tuple(ch[1]), _join(ch[0], *ch[1]))
         self.applies.append(node)
         return node
 
-    def args(self, ch):
+    def args(self, ch):  # pragma: no cover - args are built by list_first/list_more
         return tuple(ch)
 
     def subscript(self, ch):
@@ -593,7 +617,7 @@ class _Build(_LarkTransformer):
 
     def bigop_call(self, ch):
         (op, span), args = ch
-        return _BigCall(op, args, (span[0], _join(*args)[1]))
+        return _BigCall(op, tuple(args), (span[0], _join(*args)[1]))
 
     def bounds(self, ch):
         b = ch[0]
@@ -723,7 +747,9 @@ _TERMINAL_TEXT = {
     "RPAR": "')'", "LPAR": "'('", "RSQB": "']'", "LSQB": "'['", "RBRACE": "'}'", "LBRACE": "'{'",
     "COMMA": "','", "INT": "a number", "DEC": "a number", "NAME": "a name", "PLUS": "'+'",
     "MINUS": "'-'", "MUL": "'*'", "DIV": "'/'", "POW": "'^'", "EQUAL": "'='", "RANGE": "'..'",
-    "DOTS": "'...'", "SQRT": "'√'", "END": "end of formula", "$END": "end of input", "LABEL": "a label",
+    "DOTS": "'...'", "SQRT": "'√'", "END": "'.'", "$END": "end of formula", "LABEL": "a label",
+    "LE": "'<='", "GE": "'>='", "NE": "'!='", "TILDE": "'~'", "CONG": "'=='", "LESSTHAN": "'<'",
+    "MORETHAN": "'>'", "VBAR": "'|'", "UNDERSCORE": "'_'",
     "MODPAREN": "'(mod'", "SUM": "a sum", "BANG": "'!'",
 }
 # keywords that may follow any expression: listing them in "expected" only adds noise
@@ -1068,52 +1094,34 @@ class _Resolver:
 
     # -- expressions
     def expr(self, x: Any) -> A.Node:
-        if isinstance(x, A.Node) and id(x) not in _DIRTY:
-            if isinstance(x, A.Symbol) and x.name in self.sequences:
-                pass  # (cannot happen: sequence names are applied) keep the general path
-            else:
-                return x
-        if isinstance(x, _Name):
-            return self.name(x)
-        if isinstance(x, _Apply):
-            return self.apply(x)
-        if isinstance(x, _Sub):
-            return self.subscript(x)
-        if isinstance(x, _BigSub):
-            return self.bigsub(x)
-        if isinstance(x, _BigCall):
-            return self.bigcall(x)
-        if isinstance(x, _BraceList):
-            raise self.err("a list in braces is only allowed as the iterator of Sum[...] or Product[...]", x)
-        if isinstance(x, _Arg):
-            raise self.err("'=' or '..' is only allowed in the limits of a sum or product", x)
-        if isinstance(x, _DotsMark):
-            raise self.err("'...' must stand between terms of a sum or a product", x)
-        if isinstance(x, _Rel):
-            raise self.err("a relation cannot stand inside an expression", x)
-        if isinstance(x, A.BinOp):
-            if x.op in "+*" and self._has_dots(x):
-                return self.dots(x)
-            left, right = self.expr(x.left), self.expr(x.right)
-            if x.implicit and isinstance(x.right, _Apply) and isinstance(right, A.BinOp) \
-                    and right.implicit and isinstance(right.left, A.Symbol) and right.left.name == x.right.name:
-                # `3n(n+1)` is (3*n)*(n+1), not 3*(n*(n+1)): keep products left-associative
-                left = A.BinOp("*", left, right.left, implicit=True, span=_join(left, right.left))
-                right = right.right
-            return A.BinOp(x.op, left, right, implicit=x.implicit, span=x.span)
-        if isinstance(x, A.UnaryOp):
-            return A.UnaryOp(x.op, self.expr(x.operand), span=x.span)
-        if isinstance(x, A.Power):
-            return A.Power(self.expr(x.base), self.expr(x.exponent), span=x.span)
-        if isinstance(x, A.Factorial):
-            return A.Factorial(self.expr(x.operand), x.double, span=x.span)
-        if isinstance(x, A.Call):
-            return A.Call(x.name, tuple(self.expr(a) for a in x.args), written=x.written, span=x.span)
-        if isinstance(x, (A.Integer, A.Decimal, A.Rational, A.Constant, A.Symbol)):
-            return x
-        if isinstance(x, tuple):
-            raise self.err("unexpected list", x[0] if x else None)
-        raise AssertionError(f"unhandled raw node {type(x).__name__}")
+        if id(x) not in _DIRTY and isinstance(x, A.Node):
+            return x  # a clean subtree: nothing to resolve inside
+        handler = _EXPR_HANDLERS.get(type(x))
+        if handler is None:
+            if isinstance(x, tuple):
+                raise self.err("unexpected list", x[0] if x else None)
+            raise AssertionError(f"unhandled raw node {type(x).__name__}")
+        return handler(self, x)
+
+    def _binop(self, x: A.BinOp) -> A.Node:
+        if x.op in "+*" and self._has_dots(x):
+            return self.dots(x)
+        left, right = self.expr(x.left), self.expr(x.right)
+        if x.implicit and isinstance(x.right, _Apply) and isinstance(right, A.BinOp) \
+                and right.implicit and isinstance(right.left, A.Symbol) and right.left.name == x.right.name:
+            # `3n(n+1)` is (3*n)*(n+1), not 3*(n*(n+1)): keep products left-associative
+            left = A.BinOp("*", left, right.left, implicit=True, span=_join(left, right.left))
+            right = right.right
+        return A.BinOp(x.op, left, right, implicit=x.implicit, span=x.span)
+
+    def _misplaced(self, x: Any) -> A.Node:
+        message = {
+            _BraceList: "a list in braces is only allowed as the iterator of Sum[...] or Product[...]",
+            _Arg: "'=' or '..' is only allowed in the limits of a sum or product",
+            _DotsMark: "'...' must stand between terms of a sum or a product",
+            _Rel: "a relation cannot stand inside an expression",
+        }[type(x)]
+        raise self.err(message, x)
 
     @staticmethod
     def _has_dots(x: A.BinOp) -> bool:
@@ -1289,3 +1297,26 @@ class _Resolver:
             # sum(body, k, lo, hi)
             return self._make_bigop(x.op, args[1].name, args[0], args[2], args[3], None, x.span, x)
         raise self.err(f"cannot read the limits of this {word.lower()}; write {x.op}(k=0..n, body)", x)
+
+
+_EXPR_HANDLERS: dict[type, Any] = {
+    _Name: _Resolver.name,
+    _Apply: _Resolver.apply,
+    _Sub: _Resolver.subscript,
+    _BigSub: _Resolver.bigsub,
+    _BigCall: _Resolver.bigcall,
+    _BraceList: _Resolver._misplaced,
+    _Arg: _Resolver._misplaced,
+    _DotsMark: _Resolver._misplaced,
+    _Rel: _Resolver._misplaced,
+    A.BinOp: _Resolver._binop,
+    A.UnaryOp: lambda self, x: A.UnaryOp(x.op, self.expr(x.operand), span=x.span),
+    A.Power: lambda self, x: A.Power(self.expr(x.base), self.expr(x.exponent), span=x.span),
+    A.Factorial: lambda self, x: A.Factorial(self.expr(x.operand), x.double, span=x.span),
+    A.Call: lambda self, x: A.Call(x.name, tuple(self.expr(a) for a in x.args), written=x.written, span=x.span),
+    A.Integer: lambda self, x: x,
+    A.Decimal: lambda self, x: x,
+    A.Rational: lambda self, x: x,
+    A.Constant: lambda self, x: x,
+    A.Symbol: lambda self, x: x,
+}

@@ -26,12 +26,13 @@ def module(scheme: str) -> ModuleType:
 def make(scheme: str, raw: str, detail: str | None = None) -> Identifier:
     """Identifier for ``raw``: compact value, validity, scheme extras in ``detail``.
 
-    The MR review code of ``"MR1234567 (2006j:05214)"`` lands in ``detail``.
+    The MR review code of ``"MR1234567 (2006j:05214)"`` and the subject class of
+    ``"arXiv:1006.0367v3 [math.CO]"`` land in ``detail``.
     """
     mod = module(scheme)
-    if scheme == "mr":
-        value, review = mod.split(raw)
-        detail = detail if detail is not None else review
+    if scheme in ("mr", "arxiv"):
+        value, extra = mod.split(raw)  # review code / subject class
+        detail = detail if detail is not None else extra
     else:
         value = mod.compact(raw)
     return Identifier(scheme, value, valid=mod.is_valid(raw), detail=detail)

@@ -38,3 +38,6 @@ def link_from_config(scheme: str, value: str, config: dict | None) -> str | None
     if not isinstance(template, str) or "{id}" not in template:
         return None
     return template.replace("{id}", value)
+
+
+InvalidIdentifier.__module__ = "normform.ids"  # its public home

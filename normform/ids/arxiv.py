@@ -30,8 +30,20 @@ _PREFIXES = (
 RESOLVER = "https://arxiv.org/abs/"
 
 
+_CLASS_RE = re.compile(r"\s*\[([A-Za-z-]+(?:\.[A-Za-z-]+)?)\]$")
+
+
+def split(s: str) -> tuple[str, str | None]:
+    """``"arXiv:1006.0367v3 [math.CO]"`` -> ``("1006.0367v3", "math.CO")``."""
+    m = _CLASS_RE.search(s.strip())
+    if m is None:
+        return compact(s), None
+    return compact(s.strip()[:m.start()]), m.group(1)
+
+
 def compact(s: str) -> str:
-    text = strip_prefix(s.strip(), _PREFIXES).strip()
+    text = _CLASS_RE.sub("", s.strip())
+    text = strip_prefix(text, _PREFIXES).strip()
     if text.lower().endswith(".pdf"):
         text = text[:-4]
     return text

@@ -45,6 +45,7 @@ _PATTERNS: list[tuple[str, re.Pattern[str], int, int | None]] = [
     ("handle", re.compile(r"(?<![\w])hdl\s*+:\s*+(\d+(?:\.\d+)*+/" + _TOKEN + ")", re.I), 1, None),
 ]
 _ISBN_KW = re.compile(r"(?<![\w])ISBN(?:-1[03])?\s*+:?\s*+", re.I)
+_ISBN_MORE = re.compile(r"\s*+[,;/]\s*+(?=\d)")
 
 _TRAIL = frozenset(".,;:!?'\"\u201d\u2019")
 _CLOSE = {")": "(", "]": "[", "}": "{"}
@@ -139,9 +140,17 @@ def find_all(text: str) -> list[tuple[Identifier, Span]]:
                 ident = make(kind, raw, detail=detail)
             found.append((start, end, _PRIORITY[kind], ident))
     for m in _ISBN_KW.finditer(text):
-        got = _scan_isbn(text, m.end())
-        if got is not None:
-            found.append((m.start(), got[1], _PRIORITY["isbn"], make("isbn", got[0])))
+        start, pos, first = m.start(), m.end(), True
+        while (got := _scan_isbn(text, pos)) is not None:
+            if not first and len(got[0]) not in (10, 13):
+                break  # "ISBN ..., 1994": a year, not a second ISBN
+            first = False
+            found.append((start, got[1], _PRIORITY["isbn"], make("isbn", got[0])))
+            # "ISBN 978-..., 978-..." lists several numbers after one keyword.
+            more = _ISBN_MORE.match(text, got[1])
+            if more is None:
+                break
+            start, pos = more.end(), more.end()
     # Keep the earliest, longest, most specific mention where mentions overlap.
     found.sort(key=lambda item: (item[0], -item[1], item[2]))
     out: list[tuple[Identifier, Span]] = []

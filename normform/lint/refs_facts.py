@@ -107,8 +107,9 @@ def _from_table(table: dict):
     year = table.get("year")
     ids = services.need("normform.ids")
     idents = tuple(ids.make(s, table[s]) for s in ID_FIELDS if isinstance(table.get(s), str))
+    default = "article" if isinstance(table.get("container_title"), str) and "volume" in table else "other"
     try:
-        kind = Kind(table.get("kind", "other"))
+        kind = Kind(table.get("kind", default))   # a journal with a volume: an article, unless told
     except ValueError:
         kind = Kind.OTHER
     text_fields = {k: table[k] for k in ("title", "container_title", "series", "series_number", "volume",

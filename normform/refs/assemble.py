@@ -118,13 +118,59 @@ def _pick(runs: list[_Run], label: str, longest: bool = True) -> tuple[_Run | No
     return best, [r for r in mine if r is not best]
 
 
+_NAME_WORDS = lx.PARTICLES | {"and", "et", "al", "y", "und", "eds", "ed", "editors", "editor", "jr", "sr"}
+
+
+def _repair_labels(tokens: list[Token], labels: list[str], marg: list[float]) -> float:
+    """An author list that ran past a sentence period into lower-case words
+    has eaten the title: give the words back.  Returns a confidence factor."""
+    n = len(labels)
+    if not n or labels[0] not in ("authors", "editors"):
+        return 1.0
+    role = labels[0]
+    end = 0
+    while end < n and labels[end] == role:
+        end += 1
+    for k in range(1, end - 1):
+        t, prev = tokens[k], tokens[k - 1]
+        if t.text != "." or prev.kind != "word" or len(prev.text) <= 3:
+            continue
+        tail = tokens[k + 1:end]
+        if any(x.kind == "word" and x.text[:1].islower() and x.text.lower() not in _NAME_WORDS for x in tail):
+            labels[k] = "O"
+            for j in range(k + 1, end):
+                labels[j] = "title"
+                marg[j] = min(marg[j], 0.6)
+            return 0.7
+    return 1.0
+
+
+_LEFTOVER_OK = lx.CONNECTORS | {"of", "the", "pages", "page", "available", "online", "url", "isbn", "issn",
+                                "edn", "edition", "ed", "eds", "retrieved", "accessed", "see", "also", "vols",
+                                "vol", "nos", "s", "p", "pp", "no", "nr", "n", "et", "al", "hrsg", "thesis",
+                                "series", "ser", "a", "an", "at", "on", "from", "de", "la", "des", "volume"}
+
+
+def _leftover_penalty(tokens: list[Token], labels: list[str]) -> float:
+    """Content words the labeler could not place anywhere lower the record
+    confidence: something in the line is not understood."""
+    k = 0
+    for tok, lab in zip(tokens, labels):
+        if lab == "O" and tok.kind in ("word", "num") and tok.text.lower() not in _LEFTOVER_OK:
+            k += 1
+    return 0.85 ** k
+
+
 def assemble(text: str, tokens: list[Token], labels: list[str], marg: list[float],
              seq_prob: float, truncated: bool = False) -> Reference:
+    labels = list(labels)
+    marg = list(marg)
+    repair = _repair_labels(tokens, labels, marg)
     runs = _runs(tokens, labels, marg)
     infos: list[FieldInfo] = []
     values: dict[str, object] = {}
     notes: list[str] = []
-    penalty = 1.0
+    penalty = repair * _leftover_penalty(tokens, labels)
 
     def raw(r: _Run) -> str:
         return text[tokens[r.first].start:tokens[r.last].end]

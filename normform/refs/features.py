@@ -92,6 +92,12 @@ def _context_strings(text: str, kind: str) -> tuple[tuple[str, str], str, tuple[
             ("w+1=" + low, "s+1" + shape[1:]), "w+2=" + low)
 
 
+_POS = tuple("pos=%d" % k for k in range(11))
+_SL = tuple("sl=%d" % k for k in range(10))
+_SI = tuple("si=%d" % k for k in range(10))
+_PER = tuple("per=%d" % k for k in range(6))
+_COM = tuple("com=%d" % k for k in range(7))
+
 _OPEN = "([{"
 _CLOSE = ")]}"
 _QUOTES = "\"“”«»„"
@@ -167,15 +173,16 @@ def sequence_features(tokens: list[Token], text: str) -> list[list[str]]:
     seen_year = False
     seen_in = False
     seg_len, seg_low, seg_idx = _segments(tokens)
+    tlen = len(text)
     for i, tok in enumerate(tokens):
         f = list(static[i])
-        f.append("pos=%d" % (i * 10 // n if n else 0))
-        f.append("sl=%d" % seg_len[i])
-        f.append("si=%d" % seg_idx[i])
+        f.append(_POS[i * 10 // n])
+        f.append(_SL[seg_len[i]])
+        f.append(_SI[seg_idx[i]])
         if seg_low[i]:
             f.append("slow")
-        f.append("per=%d" % min(periods, 5))
-        f.append("com=%d" % min(commas, 6))
+        f.append(_PER[periods if periods < 5 else 5])
+        f.append(_COM[commas if commas < 6 else 6])
         if i == 0:
             f.append("BOS")
         if i == n - 1:
@@ -189,9 +196,10 @@ def sequence_features(tokens: list[Token], text: str) -> list[list[str]]:
         if seen_in:
             f.append("afterin")
         # whitespace before/after
-        if tok.start > 0 and text[tok.start - 1] == " ":
+        st, en = tok.start, tok.end
+        if st > 0 and text[st - 1] == " ":
             f.append("spb")
-        if tok.end < len(text) and text[tok.end:tok.end + 1] == " ":
+        if en < tlen and text[en] == " ":
             f.append("spa")
         if i > 0:
             f += ctx[i - 1][0]

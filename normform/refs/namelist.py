@@ -67,8 +67,9 @@ def split_names(text: str) -> tuple[tuple[Name, ...], bool]:
     # first two chunks: a family chunk followed by an initials chunk.
     inverted = len(chunks) >= 2 and not _is_initials(chunks[0]) and _ends_initial(chunks[1]) \
         and _core_words(chunks[0]) <= 3 and not _ends_initial(chunks[0])
-    if not inverted and len(chunks) >= 2 and not _is_initials(chunks[0]) and _core_words(chunks[0]) <= 3 \
-            and chunks[1].split()[0].lower() in lx.GIVEN_NAMES and chunks[0].split()[-1].lower() not in lx.GIVEN_NAMES:
+    if not inverted and len(chunks) >= 2 and "," in groups[0] and not _is_initials(chunks[0]) \
+            and _core_words(chunks[0]) <= 3 and chunks[0].split()[-1].lower() not in lx.GIVEN_NAMES \
+            and all(w.lower() in lx.GIVEN_NAMES or _INITIAL_ONLY.match(w) for w in chunks[1].split()):
         # "Quillfeather, Ada": the second piece starts with a known given name
         inverted = True
     if not inverted and len(chunks) >= 2 and len(groups) >= 2 and all(g.count(",") == 1 for g in groups):

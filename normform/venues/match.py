@@ -170,10 +170,11 @@ def _title_score(q: _Features, r: _Features) -> float | None:
         if short.count(" ") >= 2 and long_.startswith(short[: max(len(short) - 2, 1)]):
             s = max(s, 92.0)
         best = s / 100.0
-    if q.raw and len(r.title) >= (6 if not q.title else 12) and len(q.raw) > len(r.title):
+    if (q.raw and (best is None or best < 0.97) and len(r.title) >= (6 if not q.title else 12)
+            and len(q.raw) > len(r.title)):
         # A parser may cut a title short or run it into the venue; the library
         # title should still occur, nearly verbatim, somewhere in the raw line.
-        s = fuzz.partial_ratio(r.title, q.raw) / 100.0 * 0.97
+        s = fuzz.partial_ratio(r.title, q.raw, score_cutoff=50) / 100.0 * 0.97
         if q.title and len(q.title) > 1.3 * len(r.title):
             s *= 0.9    # the line's own title is longer: the library title may be a part of it
         nr = r.numbers
@@ -356,13 +357,18 @@ class AuthorityMatcher:
         self._feat = [features(r) for r in self.records]
         self._by_word = defaultdict(list)
         self._by_family = defaultdict(list)
+        self._by_family_year = defaultdict(list)
         for i, f in enumerate(self._feat):
             for w in f.title_words:
                 self._by_word[w].append(i)
             if f.families:
-                self._by_family[f.families[0].rsplit(" ", 1)[-1]].append(i)
-        # Words in more than this many titles ("theory", "introduction") do not block.
-        self._common = max(50, len(self.records) // 50)
+                surname = f.families[0].rsplit(" ", 1)[-1]
+                self._by_family[surname].append(i)
+                if f.year is not None:
+                    self._by_family_year[(surname, f.year)].append(i)
+        # A word or surname in more than this many records ("theory", "Smith")
+        # does not block on its own: its postings would cost more than they tell.
+        self._common = max(50, len(self.records) // 500)
 
     @classmethod
     def from_file(cls, path: str | Path, threshold: float = DEFAULT_THRESHOLD) -> "AuthorityMatcher":
@@ -387,10 +393,14 @@ class AuthorityMatcher:
             if used == _MAX_BLOCK_WORDS:
                 break
         if q.families:
-            posting = self._by_family.get(q.families[0].rsplit(" ", 1)[-1], ())
-            if len(posting) <= self._common * 4:
+            surname = q.families[0].rsplit(" ", 1)[-1]
+            posting = self._by_family.get(surname, ())
+            if len(posting) <= self._common:
                 for i in posting:
                     votes[i] += 1.5 + (1.0 if q.year is not None and self._feat[i].year == q.year else 0.0)
+            elif q.year is not None:
+                for i in self._by_family_year.get((surname, q.year), ()):
+                    votes[i] += 2.5
         if not votes:
             return []
         return [i for i, _ in heapq.nlargest(_MAX_CANDIDATES, votes.items(), key=lambda kv: kv[1])]

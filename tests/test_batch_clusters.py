@@ -1,0 +1,72 @@
+"""Duplicate clustering rules, on a hand-built work database."""
+
+from __future__ import annotations
+
+import sqlite3
+
+from normform.batch import clusters, keys
+from normform.batch.store import _connect
+from normform.model import Identifier, Name, Reference
+
+
+def _db(rows, ids=()):
+    db = _connect(":memory:")
+    for seq, (author, year, title) in enumerate(rows, start=1):
+        db.execute("INSERT INTO keys VALUES (?,?,?,?,?,?,?,?,?,?)",
+                   (seq, author, year, keys.title_key(title), keys.title_prefix(title), "", 0.5, 3, 0, 0))
+    db.executemany("INSERT INTO ids VALUES (?,?)", ids)
+    return db
+
+
+def test_typos_word_order_and_unknown_years_cluster():
+    db = _db([("farrowdale", 1987, "On the enumeration of Dyck words"),
+              ("farrowdale", 1987, "On the enumeration of Dcyk words"),       # typo
+              ("farrowdale", None, "On the Enumeration of Dyck Words."),      # "to appear"
+              ("farrowdale", 1990, "On the enumeration of Dyck words"),       # another year: another work
+              ("ormsby", 1987, "Tilings of a strip")])
+    # the undated line is compatible with both dated ones, so it links them (single linkage)
+    assert clusters.find(db) == [[1, 2, 3, 4]]
+    # without it, two years means two works
+    db2 = _db([("farrowdale", 1987, "On the enumeration of Dyck words"),
+               ("farrowdale", 1990, "On the enumeration of Dyck words")])
+    assert clusters.find(db2) == []
+
+
+def test_numbers_in_titles_must_agree():
+    db = _db([("quillby", 1970, "Lattice paths II"), ("quillby", 1970, "Lattice paths III"),
+              ("quillby", 1971, "Partitions of 12"), ("quillby", 1971, "Partitions of 13")])
+    assert clusters.find(db) == []
+
+
+def test_title_block_needs_compatible_authors():
+    db = _db([("kettleridge", 2001, "Generating trees"), ("kettleridg", 2001, "Generating trees"),
+              ("nettlefold", 2001, "Generating trees")])
+    assert clusters.find(db) == [[1, 2]]
+
+
+def test_shared_identifier_clusters_even_without_titles():
+    db = _db([("a", 2000, ""), ("b", 2001, ""), ("c", 2002, "")], ids=[(1, "doi:10.1/x"), (3, "doi:10.1/x")])
+    assert clusters.find(db) == [[1, 3]]
+
+
+def test_big_block_is_windowed_and_still_finds_neighbours():
+    rows = [("smith", 1990, f"Paper number {i} on things") for i in range(clusters.BIG_BLOCK + 100)]
+    rows.append(("smith", 1990, "Paper number 7 on thnigs"))
+    db = _db(rows)
+    assert clusters.find(db) == [[8, len(rows)]]
+
+
+def test_canonical_prefers_confidence_then_fields_then_first():
+    db = _connect(":memory:")
+    for seq, conf, nf in [(1, 0.5, 3), (2, 0.9, 2), (3, 0.9, 4), (4, 0.9, 4)]:
+        db.execute("INSERT INTO keys VALUES (?,?,?,?,?,?,?,?,?,?)", (seq, "a", 1, "t", "t", "", conf, nf, 0, 0))
+    assert clusters.canonical(db, [1, 2, 3, 4]) == 3
+
+
+def test_identifier_keys_ignore_invalid_and_arxiv_versions():
+    ref = Reference(authors=(Name(family="Waerden", particle="van der"),),
+                    identifiers=(Identifier("arxiv", "1203.4567v2"), Identifier("doi", "10.1/X"),
+                                 Identifier("doi", "10,1/bad", valid=False), Identifier("issn", "0097-3165")))
+    assert keys.identifier_keys(ref) == ["arxiv:1203.4567", "doi:10.1/x"]
+    assert keys.author_key(ref) == "waerden"
+    assert keys.fold("Göttingen – Erdős") == "gottingen erdos"
