@@ -14,12 +14,8 @@ names and comes back as part of them.
 
 from __future__ import annotations
 
-import re
-
 from normform.model import Name
 from normform.texconv import to_latex, to_unicode
-
-_AND_RE = re.compile(r"\s+and\s+", re.IGNORECASE)
 
 
 def _is_single_group(text: str) -> bool:
@@ -65,9 +61,13 @@ def split_name_list(field: str) -> list[str]:
     return [p for p in _split(field) if p.strip()]
 
 
+ET_AL = Name(literal="others")  # BibTeX's "and others": the list goes on
+
+
 def split_names(field: str) -> tuple[Name, ...]:
-    """A BibTeX name list (``A and B and others``) as names."""
-    return tuple(split_name(part) for part in split_name_list(field))
+    """A BibTeX name list as names; a final ``and others`` becomes :data:`ET_AL`."""
+    parts = split_name_list(field)
+    return tuple(ET_AL if part.strip() == "others" else split_name(part) for part in parts)
 
 
 def _protect_word(word: str, ascii: bool) -> str:
@@ -88,6 +88,8 @@ def _words(text: str, ascii: bool, protect: bool) -> str:
 
 def format_name(name: Name, ascii: bool = False) -> str:
     """BibTeX string for ``name``; ``ascii`` writes non-ASCII letters as TeX commands."""
+    if name == ET_AL:
+        return "others"
     if name.literal is not None:
         return "{" + to_latex(name.literal, ascii) + "}"
     family = _words(name.family or "", ascii, protect=True) or "{}"
@@ -107,4 +109,4 @@ def format_names(names: tuple[Name, ...] | list[Name], ascii: bool = False) -> s
     return " and ".join(format_name(n, ascii) for n in names)
 
 
-__all__ = ["split_name", "split_names", "split_name_list", "format_name", "format_names"]
+__all__ = ["ET_AL", "split_name", "split_names", "split_name_list", "format_name", "format_names"]

@@ -93,6 +93,10 @@ def main(argv=None) -> int:
 
     tagger = pycrfsuite.Tagger()
     tagger.open(args.model)
+    # the attribute list lets the runtime drop features the model never uses
+    attrs_path = os.path.join(os.path.dirname(args.model), "refs-crf.attrs.txt")
+    with open(attrs_path, "w", encoding="utf-8") as fh:
+        fh.write("\n".join(sorted(tagger.info().attributes)))
     tp, fp, fn = Counter(), Counter(), Counter()
     seq_ok = 0
     for xseq, yseq in held:

@@ -37,3 +37,18 @@ def test_dask_is_not_imported_by_the_local_engine(tmp_path):
             % (str(Path(__file__).parent / "fixtures" / "batch"), str(src), str(tmp_path / "o"), FAKE))
     out = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True, check=True)
     assert out.stdout.strip() == "False"
+
+
+def test_unreachable_scheduler_is_a_clear_error(tmp_path, capsys):
+    import socket
+
+    from normform.batch import command
+
+    with socket.socket() as sock:          # a free loopback port nobody listens on
+        sock.bind(("127.0.0.1", 0))
+        port = sock.getsockname()[1]
+    src = write_lines(tmp_path / "in.txt", 5)
+    code = command.main([str(src), "-o", str(tmp_path / "o"), "--engine", "dask",
+                         "--scheduler", f"tcp://127.0.0.1:{port}", "--quiet"], toolkit=FAKE)
+    assert code == 2
+    assert f"cannot reach the Dask scheduler at tcp://127.0.0.1:{port}" in capsys.readouterr().err

@@ -100,3 +100,18 @@ def test_report_lays_out_in_headless_chromium(report, tmp_path):
     assert sizes["rows"] == 159 and sizes["dupLinks"] > 0
     review_rows = sum(1 for line in (report.parent / "needs-review.jsonl").open())
     assert sizes["reviewShown"] == review_rows
+
+
+@pytest.mark.skipif(CHROMIUM is None, reason="chromium is not installed (CI installs Debian's chromium)")
+def test_report_prints_without_the_controls(report, tmp_path):
+    pdf = tmp_path / "report.pdf"
+    done = _chromium(tmp_path, f"--print-to-pdf={pdf}", "--no-pdf-header-footer", report.as_uri())
+    assert pdf.exists(), done.stderr[-2000:]
+    data = pdf.read_bytes()
+    pages = len(re.findall(rb"/Type\s*/Page[^s]", data))
+    # the print stylesheet starts every duplicate cluster on a new page, after the table
+    assert pages >= 3, pages
+    text = report.read_text("utf-8")
+    print_css = text[text.index("@media print"):]
+    assert ".filters" in print_css and "display: none" in print_css
+    assert "break-before: page" in print_css

@@ -40,6 +40,18 @@ def test_all_dev_mathml_validates_against_core(core_schema, display):
     assert not invalid
 
 
+def test_semantics_with_content_mathml_validates(core_schema):
+    for case in VALID:
+        xml = parse_formula(case["text"]).to_mathml(semantics=True)
+        doc = etree.fromstring(xml.encode())
+        assert core_schema.validate(doc), (case["id"], str(core_schema.error_log.last_error))
+        ann = doc.find(f"{M}semantics/{M}annotation-xml")
+        assert ann is not None and ann.get("encoding") == "MathML-Content" and len(ann) == 1
+    xml = parse_formula("sum_{k=0}^{n} k^2").to_mathml(semantics=True)
+    assert "<apply><sum/><bvar><ci>k</ci></bvar><lowlimit><cn>0</cn></lowlimit><uplimit><ci>n</ci></uplimit>" \
+        "<apply><power/><ci>k</ci><cn>2</cn></apply></apply>" in xml
+
+
 def test_mathml_constructs(core_schema):
     xml = parse_formula("sum_{k=0}^{n} binomial(n,k) x^k < 2^n (mod 3)").to_mathml()
     doc = etree.fromstring(xml.encode())
@@ -163,3 +175,32 @@ def test_random_trees_round_trip(node):
     again = parse_formula(text)
     assert again.root == stmt, text
     assert again.to_ascii() == text
+
+
+# ---------------------------------------------------------------- robustness on junk input
+
+_PIECES = list("nkxa0123456789+-*/^()[]{},.=<>!|_ ~") + [
+    "mod", "sum", "Sum_", "prod", "for", "if", "otherwise", "with", "even", "is", "and", "sqrt", "binomial",
+    "C", "F", "phi", "pi", "e", "i", "...", "√", "≤", "²", "−", "·", "∑", "G.f.:", "E.g.f.:", "inf", "floor",
+    "S2", "a(n)", "a(n-1)", "k=0..n", "{k=0}^{n}", "(mod 3)", "==", "≡", " - Ada Quill, 2020"]
+
+
+@settings(max_examples=400, deadline=None, suppress_health_check=[HealthCheck.too_slow])
+@given(st.lists(st.sampled_from(_PIECES), min_size=1, max_size=12).map("".join))
+def test_junk_input_is_rejected_or_round_trips(text):
+    from normform import FormulaError
+    from normform.formula.errors import EvaluationError
+
+    try:
+        f = parse_formula(text)
+    except FormulaError as exc:
+        assert exc.line >= 1 and exc.column >= 1
+        return
+    again = parse_formula(f.to_ascii())
+    assert again == f and again.to_ascii() == f.to_ascii()
+    f.to_latex()
+    etree.fromstring(f.to_mathml().encode())  # well-formed XML
+    try:
+        f.evaluate(n=3, k=2, x=1)
+    except EvaluationError:
+        pass

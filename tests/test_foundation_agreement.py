@@ -88,6 +88,12 @@ def test_name_splitting_agrees_with_pybtex(text, first, von, last, jr):
     assert _pybtex_parts(format_name(name, ascii=True)) == (first, von, last, jr)
 
 
+def test_and_others():
+    from normform.names import ET_AL, format_names, split_names
+    names = split_names("Quill, Ada and others")
+    assert names[-1] == ET_AL and format_names(names) == "Quill, Ada and others"
+
+
 def test_literal_names():
     assert split_name("{The Quillfeather Society}").literal == "The Quillfeather Society"
     assert format_name(split_name("{The Quillfeather Society}")) == "{The Quillfeather Society}"

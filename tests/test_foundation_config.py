@@ -1,5 +1,4 @@
-from pathlib import Path
-
+"""load_config: the [tool.normform] table from normform.toml or pyproject.toml, searched upward."""
 import pytest
 
 from normform.config import ConfigError, find_config, load_config

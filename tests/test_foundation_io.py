@@ -67,6 +67,21 @@ def test_reader_reports_missing_comma_and_duplicates():
     assert [r.title for r in result.records] == ["One"]
 
 
+def test_preamble_survives_bibtex_to_bibtex(tmp_path):
+    src = tmp_path / "p.bib"
+    src.write_text('@preamble{"\\newcommand{\\noop}[1]{}"}\n@misc{a, title={A}}\n', "utf-8")
+    out = _run(str(src), "--to", "bibtex").stdout
+    assert out.startswith('@preamble{"\\newcommand{\\noop}[1]{}"}')
+    assert read_bibtex(out).preamble == ["\\newcommand{\\noop}[1]{}"]
+
+
+def test_unreadable_name_list_skips_only_that_entry():
+    result = read_bibtex("@misc{a, author={A, B, C, D}, title={x}}\n@misc{b, title={ok}}\n", "n.bib")
+    assert [r.key for r in result.records] == ["b"]
+    (err,) = result.errors
+    assert (err.line, err.column) == (1, 1) and "Too many commas" in str(err)
+
+
 def test_stable_unique_keys_and_field_order():
     ref = Reference(kind=Kind.ARTICLE, authors=(Name(family="Quill", given="Ada"),), title="The Hooks of Counting",
                     container_title="Q. J.", date=Date(year=2001), pages=Pages("1", "9"))
@@ -159,3 +174,33 @@ def test_demo_file_converts_cleanly_to_every_format():
     text = _run(str(demo), "--to", "text").stdout.splitlines()
     assert len(text) == 6
     assert text[4].startswith("T. Wren and H. de la Plume, Jr., Counting Motzkin paths by peaks, in: Proceedings")
+
+
+def test_csljson_errors_have_positions_and_other_items_survive(tmp_path):
+    from normform.readers.csljson import CslJsonError, read_csljson_all
+    text = '[\n  {"id": "a", "type": "book", "title": "A"},\n  {"id": "b", "type": "book", "issued": {"date-parts": [["19x9"]]}},\n  3\n]'
+    records, errors = read_csljson_all(text, "x.json")
+    assert [r.key for r in records] == ["a"]
+    assert [(e.line, e.column) for e in errors] == [(3, 3), (4, 3)]
+    with pytest.raises(CslJsonError) as info:
+        read_csljson_all('[{"id": "a"},\n {"id": }]', "y.json")
+    assert (info.value.line, info.value.column) == (2, 9)
+    bad = tmp_path / "x.json"
+    bad.write_text(text, "utf-8")
+    res = _run(str(bad), "--to", "text")
+    assert res.returncode == 1 and res.stdout == "A.\n" and f"{bad}:3:3" in res.stderr
+
+
+from hypothesis import given, settings, strategies as st  # noqa: E402
+
+_BIBISH = st.lists(st.sampled_from(list('@{}(),="#%\\ \n\tabcxyzAB019-~$^_&\'') + [
+    "@article{", "author = ", "title = {", " and ", "@string{", "crossref = ", "month = ", "year = "]),
+    max_size=60).map("".join)
+
+
+@settings(max_examples=150, deadline=None)
+@given(_BIBISH)
+def test_reader_never_crashes_on_garbage(text):
+    result = read_bibtex(text, "g.bib")
+    for err in result.errors:
+        assert err.line >= 1 and err.column >= 1 and err.path == "g.bib"

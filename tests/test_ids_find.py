@@ -31,6 +31,7 @@ def test_mixed_line():
     ("arXiv:1006.0367v3 [math.CO]", ("arxiv", "1006.0367v3")),
     ("arXiv:math.GT/0309136", ("arxiv", "math.GT/0309136")),
     ("http://arxiv.org/abs/1207.6692", ("arxiv", "1207.6692")),
+    ("CoRR, abs/1207.6692, 2012.", ("arxiv", "1207.6692")),
     ("MR 2006j:05214", ("mr", "2006j:05214")),
     ("MR0045386", ("mr", "0045386")),
     ("Zbl 0829.68111", ("zbl", "0829.68111")),
@@ -79,6 +80,7 @@ ADVERSARIAL = {
     "digits": "1" * 100_000,
     "isbn": "ISBN 1 " * 14_000,
     "zbl": "Zbl 123." * 12_500,
+    "corr": "CoRR abs/" * 11_000,
     "mixed": "arXiv:1301.35 MR12 Zbl 1.2 doi:10.1/ ISBN 97 ISSN 12 hdl:1/ " * 1_700,
 }
 

@@ -77,6 +77,13 @@ def test_arxiv_subject_class_goes_to_detail():
     assert (ident.value, ident.detail, ident.valid) == ("1006.0367v3", "math.CO", True)
 
 
+def test_arxiv_id_inside_an_arxiv_doi():
+    # arXiv registers DOIs 10.48550/arXiv.<id> (from memory of arXiv's 2022 announcement).
+    assert arxiv.from_doi("https://doi.org/10.48550/arXiv.1805.11451") == "1805.11451"
+    assert arxiv.from_doi("10.48550/arXiv.math/0403276") == "math/0403276"
+    assert arxiv.from_doi("10.1000/182") is None
+
+
 def test_arxiv_version_and_link():
     assert arxiv.base("1006.0367v3") == "1006.0367"
     assert arxiv.version("1006.0367v3") == 3
@@ -177,3 +184,21 @@ def test_error_positions_point_at_the_fault():
         doi.validate("10.10a0/x")
     assert info.value.column == 6
     assert info.value.excerpt().splitlines()[1] == "     ^"
+
+
+_JUNK = st.lists(st.sampled_from(list("0123456789./:-X x#()[]%abcvMRZbl") + [
+    "10.", "doi:", "arXiv:", "MR", "Zbl ", "ISBN ", "ISSN ", "hdl:", "http://", "math/", "JFM "]),
+    max_size=30).map("".join)
+
+
+@given(_JUNK)
+def test_only_invalid_identifier_is_ever_raised(text):
+    for scheme in SCHEMES:
+        mod = module(scheme)
+        try:
+            value = mod.validate(text)
+        except InvalidIdentifier as exc:
+            assert exc.column >= 1 and exc.message
+        else:
+            assert mod.is_valid(value)
+        assert make(scheme, text).valid == mod.is_valid(text)

@@ -172,3 +172,21 @@ def test_learned_corrections_beat_pyiso4_leave_one_out():
         loo_ok += eng.abbreviate(full) == abbr
     assert loo_ok >= raw_ok
     assert loo_ok / len(rows) >= 0.90, (raw_ok, loo_ok, len(rows))
+
+
+def test_whole_table_round_trips(style):
+    """Every shipped row abbreviates to its own abbreviation and expands back,
+    except where two real venues share one abbreviation: those must be
+    reported as ambiguous, never guessed."""
+    shared = {}
+    for v in shipped_table():
+        shared.setdefault(v.abbreviation, []).append(v.full)
+    for v in shipped_table():
+        assert style.abbreviate(v.full).result == v.abbreviation, v.full
+        back = style.expand(v.abbreviation)
+        if len(shared[v.abbreviation]) == 1:
+            assert back.result == v.full, v.abbreviation
+        else:
+            assert back.how == AMBIGUOUS and set(back.candidates) >= set(shared[v.abbreviation])
+    collisions = {a: f for a, f in shared.items() if len(f) > 1}
+    assert set(collisions) == {"Doc. Math.", "Discrete Math. Appl."}   # known real clashes

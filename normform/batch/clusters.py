@@ -18,6 +18,7 @@ from __future__ import annotations
 import collections
 import itertools
 import sqlite3
+from functools import lru_cache
 from typing import Iterator
 
 from rapidfuzz import fuzz, process
@@ -96,8 +97,9 @@ def _same_key_runs(cur) -> Iterator[Iterator[int]]:
         yield (row[1] for row in group)
 
 
-def _numbers(title: str) -> list[str]:
-    return sorted(t for t in title.split() if t.isdigit() or t in _ROMAN)
+@lru_cache(maxsize=1 << 16)
+def _numbers(title: str) -> tuple[str, ...]:
+    return tuple(sorted(t for t in title.split() if t.isdigit() or t in _ROMAN))
 
 
 _ROMAN = frozenset("i ii iii iv v vi vii viii ix x xi xii".split())

@@ -37,6 +37,7 @@ def configure(parser: argparse.ArgumentParser) -> None:
 
 
 def run(args: argparse.Namespace, *, toolkit: str | None = None) -> int:
+    from normform.batch.engines import EngineError
     from normform.batch.runner import CleanError, clean
     from normform.cli import UsageError
 
@@ -51,6 +52,9 @@ def run(args: argparse.Namespace, *, toolkit: str | None = None) -> int:
                        similarity=args.similarity, against=args.against, toolkit=toolkit)
     except CleanError as exc:
         raise UsageError(str(exc)) from None
+    except EngineError as exc:
+        print(f"normform clean: {exc}; progress so far is checkpointed (--resume)", file=sys.stderr)
+        return 2
     except OSError as exc:
         print(f"normform clean: {exc}", file=sys.stderr)
         return 2

@@ -21,6 +21,10 @@ from normform.batch.process import Settings, process_chunk
 Chunk = tuple[list, int]   # (items, first record number)
 
 
+class EngineError(Exception):
+    """The chosen engine cannot run (dask not installed, scheduler unreachable)."""
+
+
 def default_jobs() -> int:
     try:
         return max(1, len(os.sched_getaffinity(0)))
@@ -84,8 +88,11 @@ def run_dask(chunks: Iterable[Chunk], settings: Settings, scheduler: str) -> Ite
     try:
         from distributed import Client
     except ImportError as exc:  # optional extra
-        raise RuntimeError("--engine dask needs the optional extra: pip install 'normform[dask]'") from exc
-    client = Client(scheduler, set_as_default=False, timeout="20s")
+        raise EngineError("--engine dask needs the optional extra: pip install 'normform[dask]'") from exc
+    try:
+        client = Client(scheduler, set_as_default=False, timeout="20s")
+    except (OSError, ValueError) as exc:
+        raise EngineError(f"cannot reach the Dask scheduler at {scheduler}: {exc}") from exc
     try:
         threads = sum(client.nthreads().values()) or 1
         yield from _ordered(lambda c: client.submit(process_chunk, c[0], c[1], settings, pure=False),

@@ -188,9 +188,11 @@ class BibtexExporter(Exporter):
 
     record = entry
 
-    def dumps(self, refs: Iterable[Reference]) -> str:
+    def dumps(self, refs: Iterable[Reference], preamble: Iterable[str] = ()) -> str:
+        """A whole file; ``preamble`` holds ``@preamble`` texts (TeX) to write first."""
         keys = KeyMaker()
-        return "\n".join(self.entry(ref, keys.make(ref)) for ref in refs)
+        head = [f'@preamble{{"{text}"}}\n' for text in preamble]
+        return "\n".join(head + [self.entry(ref, keys.make(ref)) for ref in refs])
 
 
 __all__ = ["BibtexExporter", "Field", "ENTRY_TYPE", "encode_verbatim"]

@@ -59,22 +59,24 @@ def run(args: argparse.Namespace) -> int:
         else:
             raise UsageError(f"cannot tell the format of {path}; use --from bibtex|csl-json")
     errors: list[PositionedError] = []
+    preamble: list[str] = []
     if fmt == "bibtex":
         from normform.readers.bibtex import read_bibtex
         result = read_bibtex(text, path)
-        records, errors = result.records, list(result.errors)
+        records, errors, preamble = result.records, list(result.errors), result.preamble
     else:
-        from normform.readers.csljson import read_csljson
+        from normform.readers.csljson import read_csljson_all
         try:
-            records = read_csljson(text, path)
-        except PositionedError as exc:
+            records, found = read_csljson_all(text, path)
+            errors = list(found)
+        except PositionedError as exc:  # the JSON itself is broken
             records, errors = [], [exc]
     from normform.export.registry import get_exporter
     try:
         exporter = get_exporter(args.to, style=args.style, latex=args.latex)
     except KeyError as exc:
         raise UsageError(str(exc.args[0])) from None
-    output = exporter.dumps(records)
+    output = exporter.dumps(records, preamble) if args.to == "bibtex" and preamble else exporter.dumps(records)
     for err in errors:
         print(f"normform convert: {err}", file=sys.stderr)
         excerpt = err.excerpt()

@@ -51,13 +51,16 @@ def row(*items: str) -> str:
 class MathMLPrinter(A.Visitor):
     """Walks a tree and returns Presentation MathML."""
 
-    def __init__(self, display: str = "block"):
+    def __init__(self, display: str = "block", semantics: bool = False):
         if display not in ("block", "inline"):
             raise ValueError("display must be 'block' or 'inline'")
         self.display = display
+        self.semantics = semantics
 
     def document(self, stmt: A.Node) -> str:
         body = self.statement(stmt) if isinstance(stmt, A.Statement) else self.visit(stmt)
+        if self.semantics:
+            body = with_semantics(body, stmt)
         return f'<math xmlns="{NS}" display="{self.display}">{body}</math>'
 
     def statement(self, stmt: A.Statement) -> str:
@@ -230,5 +233,133 @@ class MathMLPrinter(A.Visitor):
         return row(mo("{"), "<mtable>" + "".join(rows) + "</mtable>")
 
 
-def to_mathml(node: A.Node, display: str = "block") -> str:
-    return MathMLPrinter(display).document(node)
+def to_mathml(node: A.Node, display: str = "block", semantics: bool = False) -> str:
+    return MathMLPrinter(display, semantics).document(node)
+
+
+# ---------------------------------------------------------------- Content MathML
+
+CONTENT_OPS = {"+": "plus", "-": "minus", "*": "times", "/": "divide", "mod": "rem"}
+CONTENT_REL = {"=": "eq", "!=": "neq", "<": "lt", ">": "gt", "<=": "leq", ">=": "geq", "==": "equivalent",
+               "~": "approx"}
+CONTENT_CONST = {"pi": "<pi/>", "e": "<exponentiale/>", "i": "<imaginaryi/>", "infinity": "<infinity/>",
+                 "gamma": "<eulergamma/>"}
+# functions with a Content MathML element of their own (MathML 3, chapter 4)
+CONTENT_FN = {"floor": "floor", "ceiling": "ceiling", "abs": "abs", "exp": "exp", "log": "ln", "sin": "sin",
+              "cos": "cos", "tan": "tan", "cot": "cot", "sec": "sec", "csc": "csc", "sinh": "sinh",
+              "cosh": "cosh", "tanh": "tanh", "arctan": "arctan", "arcsin": "arcsin", "arccos": "arccos",
+              "gcd": "gcd", "lcm": "lcm", "max": "max", "min": "min", "factorial": "factorial"}
+
+
+# OpenMath content dictionaries for the combinatorial functions that have one
+_CSYMBOL = {"binomial": ("combinat1", "binomial"), "stirling1": ("combinat1", "Stirling1"),
+            "stirling2": ("combinat1", "Stirling2"), "Gamma": ("hypergeo0", "gamma"),
+            "totient": ("integer2", "euler")}
+
+
+def _apply(head: str, *args: str) -> str:
+    return "<apply>" + head + "".join(args) + "</apply>"
+
+
+class ContentPrinter(A.Visitor):
+    """Content MathML (strict-style ``apply`` trees) for the ``semantics`` annotation."""
+
+    def visit_Integer(self, node):
+        return f"<cn>{node.value}</cn>" if node.value >= 0 else _apply("<minus/>", f"<cn>{-node.value}</cn>")
+
+    def visit_Rational(self, node):
+        q = node.value
+        return _apply("<divide/>", f"<cn>{q.numerator}</cn>", f"<cn>{q.denominator}</cn>")
+
+    def visit_Decimal(self, node):
+        return f"<cn>{escape(node.text)}</cn>"
+
+    def visit_Symbol(self, node):
+        return f"<ci>{escape(node.name)}</ci>"
+
+    def visit_Constant(self, node):
+        if node.name == "phi":  # the golden ratio (1 + sqrt 5)/2
+            return _apply("<divide/>", _apply("<plus/>", "<cn>1</cn>", _apply("<root/>", "<cn>5</cn>")), "<cn>2</cn>")
+        return CONTENT_CONST[node.name]
+
+    def visit_UnaryOp(self, node):
+        return _apply("<minus/>", self.visit(node.operand))
+
+    def visit_BinOp(self, node):
+        return _apply(f"<{CONTENT_OPS[node.op]}/>", self.visit(node.left), self.visit(node.right))
+
+    def visit_Power(self, node):
+        return _apply("<power/>", self.visit(node.base), self.visit(node.exponent))
+
+    def visit_Factorial(self, node):
+        if node.double:
+            return _apply('<csymbol cd="integer2">factorial2</csymbol>', self.visit(node.operand))
+        return _apply("<factorial/>", self.visit(node.operand))
+
+    def visit_Call(self, node):
+        args = [self.visit(a) for a in node.args]
+        if node.name == "sqrt":
+            return _apply("<root/>", *args)
+        if node.name == "root":
+            return _apply("<root/>", f"<degree>{args[1]}</degree>", args[0])
+        if node.name == "mod":
+            return _apply("<rem/>", *args)
+        head = CONTENT_FN.get(node.name)
+        if head:
+            return _apply(f"<{head}/>", *args)
+        cd, name = _CSYMBOL.get(node.name, ("normform", node.name))
+        return _apply(f'<csymbol cd="{cd}">{escape(name)}</csymbol>', *args)
+
+    def visit_SeqRef(self, node):
+        return _apply(f"<ci>{escape(node.name)}</ci>", *(self.visit(i) for i in node.indices))
+
+    def visit_BigOp(self, node):
+        head = "<sum/>" if node.op == "sum" else "<product/>"
+        parts = [f"<bvar><ci>{escape(node.var)}</ci></bvar>"]
+        if node.divides is not None:
+            cond = _apply('<csymbol cd="integer1">divides</csymbol>', f"<ci>{escape(node.var)}</ci>",
+                          self.visit(node.divides))
+            parts.append(f"<condition>{cond}</condition>")
+        elif node.lower is not None:
+            parts.append(f"<lowlimit>{self.visit(node.lower)}</lowlimit>")
+            parts.append(f"<uplimit>{self.visit(node.upper)}</uplimit>")
+        return _apply(head, *parts, self.visit(node.body))
+
+    def visit_Dots(self, node):
+        head = "<plus/>" if node.op == "+" else "<times/>"
+        return _apply(head, *(self.visit(t) for t in node.first), "<ci>…</ci>", self.visit(node.last))
+
+    def visit_Relation(self, node):
+        if len(node.ops) == 1:
+            out = _apply(f"<{CONTENT_REL[node.ops[0]]}/>", self.visit(node.operands[0]), self.visit(node.operands[1]))
+        else:
+            out = _apply("<and/>", *(_apply(f"<{CONTENT_REL[op]}/>", self.visit(a), self.visit(b))
+                                    for op, a, b in zip(node.ops, node.operands, node.operands[1:])))
+        if node.modulus is not None:
+            out = _apply('<csymbol cd="integer2">congruent</csymbol>', *(self.visit(o) for o in node.operands),
+                         self.visit(node.modulus))
+        return out
+
+    def visit_Parity(self, node):
+        rem = _apply("<rem/>", self.visit(node.operand), "<cn>2</cn>")
+        return _apply("<eq/>" if node.even else "<neq/>", rem, "<cn>0</cn>")
+
+    def visit_And(self, node):
+        return _apply("<and/>", *(self.visit(i) for i in node.items))
+
+    def visit_Piecewise(self, node):
+        parts = []
+        for value, cond in node.branches:
+            if cond is None:
+                parts.append(f"<otherwise>{self.visit(value)}</otherwise>")
+            else:
+                parts.append(f"<piece>{self.visit(value)}{self.visit(cond)}</piece>")
+        return "<piecewise>" + "".join(parts) + "</piecewise>"
+
+
+def with_semantics(presentation_row: str, stmt: A.Node) -> str:
+    """Wrap presentation markup in ``semantics`` with a Content MathML annotation of the body."""
+    body = stmt.body if isinstance(stmt, A.Statement) else stmt
+    content = ContentPrinter().visit(body)
+    return (f"<semantics>{presentation_row}"
+            f'<annotation-xml encoding="MathML-Content">{content}</annotation-xml></semantics>')

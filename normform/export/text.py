@@ -44,6 +44,8 @@ def short_name(name: Name) -> str:
 
 def name_list(names: tuple[Name, ...]) -> str:
     shown = [short_name(n) for n in names]
+    if len(shown) > 1 and names[-1] == Name(literal="others"):  # BibTeX "and others"
+        return ", ".join(shown[:-1]) + " et al."
     if len(shown) <= 1:
         return "".join(shown)
     return ", ".join(shown[:-1]) + " and " + shown[-1]

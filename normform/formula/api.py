@@ -82,10 +82,11 @@ class Formula:
         return sorted(A.free_symbols(self.root.body))
 
     # -- output
-    def to_mathml(self, display: str = "block") -> str:
+    def to_mathml(self, display: str = "block", semantics: bool = False) -> str:
+        """Presentation MathML (MathML Core); ``semantics=True`` adds a Content MathML annotation."""
         from normform.export.mathml import MathMLPrinter
 
-        return MathMLPrinter(display=display).document(self.root)
+        return MathMLPrinter(display=display, semantics=semantics).document(self.root)
 
     def to_latex(self) -> str:
         from normform.export.latex import LatexPrinter

@@ -14,6 +14,8 @@ def configure(parser: argparse.ArgumentParser) -> None:
                         help="output format (default: canonical ascii)")
     parser.add_argument("--display", choices=("block", "inline"), default="block",
                         help="MathML display mode (default: block)")
+    parser.add_argument("--semantics", action="store_true",
+                        help="MathML: add a Content MathML annotation (semantics/annotation-xml)")
     parser.add_argument("--at", metavar="VARS",
                         help="evaluate each formula at this point, e.g. n=5,k=2 (values: integers or p/q)")
     parser.add_argument("--digits", type=int, default=40,
@@ -107,7 +109,7 @@ def run(args: argparse.Namespace) -> int:
         record.update(ok=True, kind=f.kind)
         problems = []
         if args.to == "json":
-            record.update(ascii=f.to_ascii(), latex=f.to_latex(), mathml=f.to_mathml(args.display))
+            record.update(ascii=f.to_ascii(), latex=f.to_latex(), mathml=f.to_mathml(args.display, args.semantics))
         if point is not None:
             try:
                 record["value"] = show_value(f.evaluate_at(point, digits=args.digits))
@@ -137,5 +139,5 @@ def run(args: argparse.Namespace) -> int:
                 out.write(", ".join(record["terms"]) + "\n")
             continue
         text = {"ascii": f.to_ascii, "latex": f.to_latex}.get(args.to)
-        out.write((text() if text else f.to_mathml(args.display)) + "\n")
+        out.write((text() if text else f.to_mathml(args.display, args.semantics)) + "\n")
     return 1 if failures else 0

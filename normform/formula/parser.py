@@ -161,18 +161,20 @@ class _TableDriver:
         out: list[_Tok] = []
         ignore, keywords = self.ignore, self.keywords
         bad = None
+        append = out.append
         for m in self.big.finditer(text):
             typ = m.lastgroup
             if typ in ignore:
                 continue
+            start, end = m.span()
             if typ == "_BAD_":
-                bad = m.start()
+                bad = start
                 break
-            value = m.group()
+            value = text[start:end]
             kw = keywords.get(typ)
             if kw is not None:
                 typ = kw.get(value, typ)
-            out.append(_Tok(typ, value, m.start(), m.end()))
+            append(_Tok(typ, value, start, end))
         end = len(text) if bad is None else bad
         out.append(_Tok("$BAD" if bad is not None else "$END", "", end, end))
         return out, bad
@@ -870,6 +872,9 @@ _CONSTANTS = {
     "infinity": "infinity", "Infinity": "infinity", "inf": "infinity", "oo": "infinity", "∞": "infinity",
     "I": "i", "i": "i",
 }
+# Greek letter names double as plain variables even where a function has the same name
+_GREEK = {"sigma", "tau", "zeta", "Gamma", "mu", "phi", "Phi", "gamma", "alpha", "beta", "delta", "lambda",
+          "theta", "rho", "omega", "psi", "chi", "eta", "nu", "xi", "epsilon", "kappa", "iota", "upsilon"}
 _BOUND_PREFERENCE = ("k", "j", "i", "m", "d", "l", "r", "s", "t")
 
 
@@ -936,6 +941,11 @@ class _Resolver:
         self.sequences: set[str] = set()
         self.lhs_vars: set[str] = set()
         self._find_sequences()
+        for n in self.standalone:
+            if len(n) > 2 and n not in _GREEK and lookup(n, None) is not None and n not in _CONSTANTS:
+                where = next((a for a in info.applies if a.name == n), None)
+                raise _PendingError(f"{n} is a function: it needs its argument, as in {n}(x)",
+                                    where.span if where is not None else (text.find(n), text.find(n) + len(n)))
 
     # -- which applied names are sequences (the defined one, unknown names)
     def _find_sequences(self) -> None:
@@ -1168,7 +1178,7 @@ class _Resolver:
         if any(isinstance(a, _Arg) for a in args):
             raise self.err(f"'=' or '..' inside {n}(...)", x)
         if n in self.sequences:
-            return A.SeqRef(n, tuple(self.expr(a) for a in args), span=x.span)
+            return self.seqref(n, args, x)
         is_var = n in self.bound or n in self.lhs_vars or n in self.standalone
         if is_var and len(args) == 1:
             # `n(n+1)`, `x(1+x)`: a variable times a group
@@ -1181,7 +1191,14 @@ class _Resolver:
             other = lookup(n, None)
             if other is not None and len(n) > 2 and n not in self.sequences:
                 raise self.err(f"{n} takes {other.arity_text()}, not {len(args)}", x)
-        return A.SeqRef(n, tuple(self.expr(a) for a in args), span=x.span)
+        return self.seqref(n, args, x)
+
+    def seqref(self, n: str, args, x, subscript: bool = False) -> A.SeqRef:
+        if n in self.standalone:
+            raise self.err(f"{n} is used both as a variable and as a sequence", x)
+        if len(n) > 2 and n not in _GREEK and lookup(n, None) is not None:
+            raise self.err(f"{n} is a function: write {n}(...)", x)
+        return A.SeqRef(n, tuple(self.expr(a) for a in args), subscript=subscript, span=x.span)
 
     def subscript(self, x: _Sub) -> A.Node:
         n = x.name
@@ -1189,7 +1206,7 @@ class _Resolver:
             spec = lookup(n, len(x.indices))
             if spec is not None and n not in self.standalone and len(n) <= 2 and n in ("F", "L", "C", "H", "B"):
                 return A.Call(spec.name, tuple(self.expr(a) for a in x.indices), written=n + "_", span=x.span)
-        return A.SeqRef(n, tuple(self.expr(a) for a in x.indices), subscript=True, span=x.span)
+        return self.seqref(n, x.indices, x, subscript=True)
 
     # -- sums and products
     def _make_bigop(self, op: str, var: str | None, body_raw: Any, lower: Any, upper: Any,

@@ -109,3 +109,16 @@ def format(s: str) -> str:  # noqa: A001
 def link(s: str, config: dict | None = None) -> str:
     value = compact(s)
     return link_from_config("arxiv", value, config) or RESOLVER + value
+
+
+ARXIV_DOI_PREFIX = "10.48550/arxiv."  # arXiv's own DOIs, registered since 2022 (from memory)
+
+
+def from_doi(doi: str) -> str | None:
+    """The arXiv id inside an arXiv DOI: ``10.48550/arXiv.1805.11451`` -> ``1805.11451``."""
+    from normform.ids import doi as _doi
+    value = _doi.compact(doi)
+    if not value.lower().startswith(ARXIV_DOI_PREFIX):
+        return None
+    candidate = value[len(ARXIV_DOI_PREFIX):]
+    return candidate if is_valid(candidate) else None

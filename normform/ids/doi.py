@@ -43,7 +43,7 @@ def validate(s: str) -> str:
         if slash < 0:
             raise InvalidIdentifier("DOI has no '/' between prefix and suffix", scheme="doi",
                                     raw=value, column=len(value) + 1, expected=("'/'",))
-        bad = next(i for i, ch in enumerate(value[3:slash], 3) if not (ch.isdigit() or ch == "."))
+        bad = next((i for i, ch in enumerate(value[3:slash], 3) if not (ch.isdigit() or ch == ".")), 3)
         raise InvalidIdentifier("DOI registrant code must be digits separated by dots",
                                 scheme="doi", raw=value, column=bad + 1, expected=("digit", "'.'"))
     suffix = value[m.end():]

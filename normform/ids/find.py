@@ -36,6 +36,8 @@ _PATTERNS: list[tuple[str, re.Pattern[str], int, int | None]] = [
     # them it cannot be told from other dotted numbers.
     ("arxiv", re.compile(r"(?<![\w.])(\d{4}\.\d{4,5}v\d+)(?!\d)" + _ARX_CLASS), 1, 2),
     ("arxiv", re.compile(r"(?<![\w.])(\d{4}\.\d{4,5})\s*+\[([a-z-]++\.[A-Za-z]{2})\]"), 1, 2),
+    # "CoRR abs/1207.6692": arXiv's listing in the computing research repository (common practice).
+    ("arxiv", re.compile(r"(?<![\w])CoRR,?\s*+abs/(" + _ARX_NEW + "|" + _ARX_OLD + ")"), 1, None),
     ("mr", re.compile(r"(?<![\w])MR\s*+#?\s*+(?:(\d{4}[a-l]?\s*+:\s*+\d{1,6}[a-z]?|\d{1,3}\s*+\#\s*+\d{1,6}[a-z]?)"
                       r"|(\d{1,8})(?![\d:])(?:\s*+\(\s*+(" + _REVIEW + r")\s*+\))?)"), 0, None),
     ("zbl", re.compile(r"(?<![\w])(?i:zbl)\.?\s*+:?\s*+(?:pre\s*+)?(\d{3,4}\.\d{5}|0\d{7})(?!\d)"), 1, None),

@@ -27,7 +27,7 @@ def validate(s: str) -> str:
     if not _RE.fullmatch(value):
         bad = next((i for i, ch in enumerate(value) if ch.isspace()), None)
         if bad is None:
-            bad = next(i for i, ch in enumerate(value) if not (ch.isdigit() or ch == "."))
+            bad = next((i for i, ch in enumerate(value) if not (ch.isdigit() or ch == ".")), 0)
             message = "a handle prefix is digits separated by dots"
         else:
             message = "a handle contains no blanks"

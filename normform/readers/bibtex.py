@@ -56,7 +56,7 @@ VERBATIM = frozenset({"url", "doi", "eprint", "hdl", "normform-raw", "normform-f
 # Our own fields for provenance, so BibTeX round trips keep it.
 PROVENANCE_FIELDS = ("normform-raw", "normform-confidence", "normform-fields", "normform-origin")
 
-_ENTRY_START = re.compile(r"^[ \t]*@", re.MULTILINE)
+_ENTRY_START = re.compile(r"^[ \t]*@[A-Za-z]+[ \t]*[{(]", re.MULTILINE)
 # A group right after a command word or an accent symbol is its argument, not a protection.
 _ARGUMENT_BEFORE = re.compile(r"(?<!\\)(?:\\\\)*\\(?:[A-Za-z]+\*?|['\"^~`=.])$")
 _CIRCA = re.compile(r"^(?:c\.|ca\.|circa)\s*(\d{3,4})$", re.IGNORECASE)
@@ -85,6 +85,7 @@ def _chunks(text: str) -> list[int]:
 def read_bibtex(text: str, path: str | None = None) -> BibtexResult:
     """All records of a BibTeX text, plus one positioned error per malformed entry."""
     from pybtex.database.input.bibtex import LowLevelParser, month_names
+    from pybtex.exceptions import PybtexError
     from pybtex.scanner import PybtexSyntaxError
     from pybtex.utils import CaseInsensitiveDict
 
@@ -168,7 +169,12 @@ def read_bibtex(text: str, path: str | None = None) -> BibtexResult:
                                                  line=line, column=col, source=text, path=path))
             else:
                 values = inherit(values, parent[1])
-        result.records.append(to_reference(kind, key, values))
+        try:
+            result.records.append(to_reference(kind, key, values))
+        except (PybtexError, ValueError) as exc:  # e.g. a name with too many commas
+            line, col = _line_col(text, start)
+            result.errors.append(BibtexError(f"entry {key!r} skipped: {exc}", line=line, column=col,
+                                             source=text, path=path))
     return result
 
 

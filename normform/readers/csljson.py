@@ -46,7 +46,7 @@ def _date(data) -> Date | None:
     year = month = day = None
     parts = data.get("date-parts")
     if parts and parts[0]:
-        first = [int(p) if p not in (None, "") else None for p in parts[0]]
+        first = [int(p) if p not in (None, "") else None for p in parts[0]]  # ValueError: reported per item
         year, month, day = (first + [None, None, None])[:3]
     elif "raw" in data:
         bits = str(data["raw"]).split("-")
@@ -129,24 +129,70 @@ def from_csl(item: dict) -> Reference:
     )
 
 
-def read_csljson(text: str, path: str | None = None) -> list[Reference]:
-    """All items of a CSL-JSON text (an array, or one object)."""
+def _line_col(text: str, pos: int) -> tuple[int, int]:
+    return text.count("\n", 0, pos) + 1, pos - (text.rfind("\n", 0, pos) + 1) + 1
+
+
+def _items(text: str, path: str | None) -> list[tuple[int, object]]:
+    """(offset, value) of each array element, so errors can name a line."""
+    decoder = json.JSONDecoder()
     try:
-        data = json.loads(text)
+        stripped = len(text) - len(text.lstrip())
+        if not text[stripped:stripped + 1] == "[":
+            value, _ = decoder.raw_decode(text, stripped)
+            if text[_:].strip():
+                raise json.JSONDecodeError("extra data after the value", text, _)
+            return [(stripped, value)]
+        out, pos = [], stripped + 1
+        while True:
+            while pos < len(text) and text[pos] in " \t\r\n":
+                pos += 1
+            if text[pos:pos + 1] == "]":
+                if text[pos + 1:].strip():
+                    raise json.JSONDecodeError("extra data after the array", text, pos + 1)
+                return out
+            if out:
+                if text[pos:pos + 1] != ",":
+                    raise json.JSONDecodeError("expected ',' or ']'", text, pos)
+                pos += 1
+                while pos < len(text) and text[pos] in " \t\r\n":
+                    pos += 1
+            value, end = decoder.raw_decode(text, pos)
+            out.append((pos, value))
+            pos = end
     except json.JSONDecodeError as exc:
         raise CslJsonError(f"invalid JSON: {exc.msg}", line=exc.lineno, column=exc.colno,
                            source=text, path=path, expected=("a JSON array of CSL items",)) from None
-    if isinstance(data, dict):
-        data = [data]
-    if not isinstance(data, list):
-        raise CslJsonError("CSL-JSON must be an array of items", source=text, path=path)
-    out = []
-    for n, item in enumerate(data):
+    except IndexError:
+        line, col = _line_col(text, len(text))
+        raise CslJsonError("invalid JSON: the array is not closed", line=line, column=col,
+                           source=text, path=path, expected=("']'",)) from None
+
+
+def read_csljson_all(text: str, path: str | None = None) -> tuple[list[Reference], list[CslJsonError]]:
+    """Every readable item, plus one positioned error per item that is not (bad JSON stops all)."""
+    records: list[Reference] = []
+    errors: list[CslJsonError] = []
+    for n, (offset, item) in enumerate(_items(text, path)):
+        line, col = _line_col(text, offset)
         if not isinstance(item, dict):
-            raise CslJsonError(f"item {n + 1} is not an object", source=text, path=path,
-                               expected=("an object with id and type",))
-        out.append(from_csl(item))
-    return out
+            errors.append(CslJsonError(f"item {n + 1} is not an object", line=line, column=col,
+                                       source=text, path=path, expected=("an object with id and type",)))
+            continue
+        try:
+            records.append(from_csl(item))
+        except (TypeError, ValueError, AttributeError, KeyError) as exc:
+            errors.append(CslJsonError(f"item {n + 1} ({item.get('id', 'no id')}): unreadable value: {exc}",
+                                       line=line, column=col, source=text, path=path))
+    return records, errors
 
 
-__all__ = ["CslJsonError", "from_csl", "read_csljson", "KIND_OF_TYPE"]
+def read_csljson(text: str, path: str | None = None) -> list[Reference]:
+    """All items of a CSL-JSON text (an array, or one object); raises the first error."""
+    records, errors = read_csljson_all(text, path)
+    if errors:
+        raise errors[0]
+    return records
+
+
+__all__ = ["CslJsonError", "from_csl", "read_csljson", "read_csljson_all", "KIND_OF_TYPE"]

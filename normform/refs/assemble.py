@@ -46,8 +46,14 @@ def _latex():
     return LatexNodes2Text(math_mode="verbatim", strict_latex_spaces=False)
 
 
+_NEEDS_CLEAN = re.compile(r"[\\{}~$*_\t\n]|\s\s|,,|\.\.")
+
+
 def clean_text(text: str) -> str:
-    """TeX to Unicode, markup dropped, NFC, single spaces."""
+    """TeX to Unicode, markup dropped, NFC, single spaces.  (The line itself
+    is already NFC, so plain text takes the fast path.)"""
+    if not _NEEDS_CLEAN.search(text):
+        return text.strip()
     text = _MARKUP.sub("", text)
     if _TEX_HINT.search(text):
         try:
@@ -110,8 +116,8 @@ def _runs(tokens: list[Token], labels: list[str], marg: list[float]) -> list[_Ru
     return merged
 
 
-def _pick(runs: list[_Run], label: str, longest: bool = True) -> tuple[_Run | None, list[_Run]]:
-    mine = [r for r in runs if r.label == label]
+def _pick(runs: dict[str, list[_Run]], label: str, longest: bool = True) -> tuple[_Run | None, list[_Run]]:
+    mine = runs.get(label)
     if not mine:
         return None, []
     best = max(mine, key=lambda r: r.last - r.first) if longest else mine[0]
@@ -166,7 +172,9 @@ def assemble(text: str, tokens: list[Token], labels: list[str], marg: list[float
     labels = list(labels)
     marg = list(marg)
     repair = _repair_labels(tokens, labels, marg)
-    runs = _runs(tokens, labels, marg)
+    runs: dict[str, list[_Run]] = {}
+    for r in _runs(tokens, labels, marg):
+        runs.setdefault(r.label, []).append(r)
     infos: list[FieldInfo] = []
     values: dict[str, object] = {}
     notes: list[str] = []
@@ -390,13 +398,18 @@ def _kind(text: str, v: dict, idents: list[Identifier], found: dict[str, str]) -
 
 def _record_confidence(v: dict, infos: list[FieldInfo], seq_prob: float, penalty: float,
                        kind: Kind, etal: bool) -> float:
-    """Record confidence: the weakest field, the labeling's overall
-    probability, and penalties from validation; a record with neither a
-    title nor authors is never trusted."""
+    """Record confidence: the record is right only if every field is, so the
+    field confidences multiply (identifiers, checked by their own grammar,
+    do not count); then the labeling's overall probability and the
+    validation penalties.  A record with neither a title nor authors is
+    never trusted."""
     if not infos:
         return 0.0
-    weakest = min(i.confidence for i in infos)
-    conf = min(weakest, seq_prob ** 0.5 if seq_prob > 0 else 0.0) * penalty
+    conf = 1.0
+    for info in infos:
+        if info.field not in _ID_FIELDS:
+            conf *= info.confidence
+    conf = min(conf, seq_prob ** 0.5 if seq_prob > 0 else 0.0) * penalty
     if not v.get("title"):
         conf *= 0.5
     if not v.get("authors") and not v.get("editors"):
@@ -404,3 +417,6 @@ def _record_confidence(v: dict, infos: list[FieldInfo], seq_prob: float, penalty
     if kind is Kind.OTHER:
         conf *= 0.8
     return max(0.0, min(1.0, conf))
+
+
+_ID_FIELDS = frozenset(("doi", "arxiv", "mr", "zbl", "isbn", "issn", "url", "handle"))

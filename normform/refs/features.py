@@ -37,8 +37,29 @@ def _shape(text: str) -> str:
     return "".join(out)
 
 
+# Attributes the trained model knows; set by the labeler.  Unknown attributes
+# carry no weight, so dropping them (once, inside the caches) changes no
+# label and saves crfsuite the lookups.  Training leaves this None.
+KNOWN: frozenset[str] | None = None
+
+
+def set_known(attrs: frozenset[str] | None) -> None:
+    global KNOWN
+    KNOWN = attrs
+    token_features.cache_clear()
+    _context_strings.cache_clear()
+
+
 @lru_cache(maxsize=200_000)
 def token_features(text: str, kind: str) -> tuple[str, ...]:
+    f = _token_features(text, kind)
+    if KNOWN is not None:
+        # keep the shape at index 1 (neighbour features read it)
+        f = f[:2] + tuple(a for a in f[2:] if a in KNOWN)
+    return f
+
+
+def _token_features(text: str, kind: str) -> tuple[str, ...]:
     low = text.lower()
     f = ["k=" + kind, "s=" + _shape(text)]
     if kind in ("word", "initial", "num", "tex"):
@@ -88,8 +109,14 @@ def _context_strings(text: str, kind: str) -> tuple[tuple[str, str], str, tuple[
     """What a token contributes to its neighbours' features (cached)."""
     low = text.lower()
     shape = "s=" + _shape(text) if kind != "url" else "s=url"
-    return (("w-1=" + low, "s-1" + shape[1:]), "w-2=" + low,
-            ("w+1=" + low, "s+1" + shape[1:]), "w+2=" + low)
+    prev, nxt = ("w-1=" + low, "s-1" + shape[1:]), ("w+1=" + low, "s+1" + shape[1:])
+    w2p, w2n = "w-2=" + low, "w+2=" + low
+    if KNOWN is not None:
+        prev = tuple(a for a in prev if a in KNOWN)
+        nxt = tuple(a for a in nxt if a in KNOWN)
+        w2p = w2p if w2p in KNOWN else ""
+        w2n = w2n if w2n in KNOWN else ""
+    return prev, w2p, nxt, w2n
 
 
 _POS = tuple("pos=%d" % k for k in range(11))
@@ -203,13 +230,13 @@ def sequence_features(tokens: list[Token], text: str) -> list[list[str]]:
             f.append("spa")
         if i > 0:
             f += ctx[i - 1][0]
-            if i > 1:
+            if i > 1 and ctx[i - 2][1]:
                 f.append(ctx[i - 2][1])
         else:
             f.append("w-1=^")
         if i + 1 < n:
             f += ctx[i + 1][2]
-            if i + 2 < n:
+            if i + 2 < n and ctx[i + 2][3]:
                 f.append(ctx[i + 2][3])
         else:
             f.append("w+1=$")

@@ -34,6 +34,19 @@ def model_path() -> str | None:
     return str(path) if path.exists() and path.stat().st_size > 0 else None
 
 
+ATTRS_NAME = "refs-crf.attrs.txt"
+
+
+@lru_cache(maxsize=1)
+def _load_known() -> None:
+    """Tell the feature extractor which attributes the model knows."""
+    from normform.refs import features
+    from normform.resources import data_path
+    path = data_path(ATTRS_NAME)
+    if path.exists():
+        features.set_known(frozenset(path.read_text("utf-8").split("\n")))
+
+
 def _tagger():
     tagger = getattr(_local, "tagger", None)
     if tagger is None:
@@ -41,6 +54,7 @@ def _tagger():
         tagger = pycrfsuite.Tagger()
         tagger.open(model_path())
         _local.tagger = tagger
+        _load_known()
     return tagger
 
 

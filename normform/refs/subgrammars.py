@@ -9,6 +9,7 @@ rejects returns ``None`` and the caller keeps the raw text.
 
 from __future__ import annotations
 
+import re
 from functools import lru_cache
 
 from lark import Lark, Token as LarkToken, Tree
@@ -38,11 +39,23 @@ def expand_range(first: str, last: str) -> str:
     return last
 
 
+# Fast paths for the shapes most lines use; everything else goes to the grammar.
+_SIMPLE_RANGE = re.compile(r"(\d{1,6})\s?(?:-{1,3}|[–—])\s?(\d{1,6})\Z")
+_SIMPLE_NUM = re.compile(r"\d{1,6}\Z")
+_SIMPLE_VOL = re.compile(r"(?:[Vv]ol(?:ume)?\.?\s?|\*\*)?(\d{1,5})(?:\*\*)?(?:\s?\((\d{1,4})\))?\Z")
+_SIMPLE_YEAR = re.compile(r"\(?((?:1[5-9]|20)\d\d)\)?\.?\Z")
+
+
 @lru_cache(maxsize=50_000)
 def parse_pages(text: str) -> Pages | None:
     text = text.strip().strip(",.;:").strip()
     if not text or len(text) > 60:
         return None
+    m = _SIMPLE_RANGE.match(text)
+    if m:
+        return Pages(first=m.group(1), last=expand_range(m.group(1), m.group(2)))
+    if _SIMPLE_NUM.match(text):
+        return Pages(first=text)
     try:
         tree = _parser("refs-pages.lark").parse(text)
     except LarkError:
@@ -73,6 +86,9 @@ def parse_volume(text: str) -> tuple[str | None, str | None] | None:
     text = text.strip().strip(",.;:").strip()
     if not text or len(text) > 60:
         return None
+    m = _SIMPLE_VOL.match(text)
+    if m:
+        return m.group(1), m.group(2)
     try:
         tree = _parser("refs-volume.lark").parse(text)
     except LarkError:
@@ -94,6 +110,9 @@ def parse_date(text: str) -> Date | None:
     text = text.strip().strip(",;:").strip()
     if not text or len(text) > 40:
         return None
+    m = _SIMPLE_YEAR.match(text)
+    if m:
+        return Date(year=int(m.group(1)))
     try:
         tree = _parser("refs-dates.lark").parse(text)
     except LarkError:

@@ -9,7 +9,7 @@ pylatexenc afterwards.  Every pattern is linear: no nested quantifiers.
 from __future__ import annotations
 
 import re
-from dataclasses import dataclass
+from typing import NamedTuple
 
 from normform.model import Identifier
 
@@ -30,8 +30,8 @@ _TOKEN_RE = re.compile(
 _ID_HINT = re.compile(r"10\.\d|://|www\.|ar[Xx]iv|MR|Zbl|ZBL|zbl|JFM|ISBN|ISSN|isbn|issn|hdl:|/\d{7}|\d{4}\.\d{4}|[Dd][Oo][Ii]")
 
 
-@dataclass(slots=True)
-class Token:
+class Token(NamedTuple):
+    # a NamedTuple: the tokenizer makes millions of these, and tuples are cheap
     text: str
     start: int
     end: int
@@ -40,10 +40,15 @@ class Token:
 
 
 def _plain(text: str, lo: int, hi: int, out: list[Token], limit: int) -> None:
+    room = limit - len(out)
+    if room <= 0:
+        return
+    append = out.append
     for m in _TOKEN_RE.finditer(text, lo, hi):
-        if len(out) >= limit:
+        append(Token(m.group(), m.start(), m.end(), m.lastgroup))
+        room -= 1
+        if not room:
             return
-        out.append(Token(m.group(), m.start(), m.end(), m.lastgroup or "punct"))
 
 
 def tokenize(text: str, limit: int = MAX_TOKENS) -> list[Token]:

@@ -125,6 +125,9 @@ class Iso4Engine:
         if not title:
             return title
         raw = self._punctuation(raw_abbreviation(title))
+        last = title.split()[-1]
+        if len(title.split()) > 1 and len(last) == 1 and last.isupper() and raw.split()[-1] != last:
+            raw = f"{raw} {last}"   # pyiso4 drops a final part letter that spells a stopword ("E")
         pairs = align(title, raw)
         if not pairs or len(pairs) < 2:
             return raw      # single-word titles stay whole (ISO 4)

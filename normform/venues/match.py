@@ -113,6 +113,7 @@ class _Features:
     first_page: str | None
     raw: str                        # key of the raw line, for title-less queries
     raw_words: frozenset[str] = frozenset()     # words of the raw line
+    surname: str = ""                           # last word of the first family name (blocking)
     numbers: frozenset[str] = frozenset()       # part numbers of the title
     raw_numbers: frozenset[str] = frozenset()   # numbers anywhere on the raw line
 
@@ -132,11 +133,12 @@ def features(ref: Reference) -> _Features:
     title = key(ref.title) if ref.title else ""
     raw = key(ref.provenance.raw) if ref.provenance and ref.provenance.raw else ""
     first, _ = _pages_text(ref)
+    families = tuple(f for f in (_family_key(n) for n in (ref.authors or ref.editors)) if f)
     return _Features(
         title=title,
         # the raw line's words block too: a parser may have cut or misplaced the title
         title_words=_blocking_words(f"{title} {raw}" if raw else title),
-        families=tuple(f for f in (_family_key(n) for n in (ref.authors or ref.editors)) if f),
+        families=families,
         year=ref.year,
         venue=_venue_key(ref.container_title) if ref.container_title else "",
         volume=key(ref.volume) if ref.volume else None,
@@ -145,6 +147,7 @@ def features(ref: Reference) -> _Features:
         numbers=_numbers(title),
         raw_numbers=_numbers(raw),
         raw_words=frozenset(raw.split()),
+        surname=families[0].rsplit(" ", 1)[-1] if families else "",
     )
 
 
@@ -361,14 +364,14 @@ class AuthorityMatcher:
         for i, f in enumerate(self._feat):
             for w in f.title_words:
                 self._by_word[w].append(i)
-            if f.families:
-                surname = f.families[0].rsplit(" ", 1)[-1]
-                self._by_family[surname].append(i)
+            if f.surname:
+                self._by_family[f.surname].append(i)
                 if f.year is not None:
-                    self._by_family_year[(surname, f.year)].append(i)
+                    self._by_family_year[(f.surname, f.year)].append(i)
         # A word or surname in more than this many records ("theory", "Smith")
         # does not block on its own: its postings would cost more than they tell.
         self._common = max(50, len(self.records) // 500)
+        self._sets: dict[tuple[str, str], frozenset[int]] = {}
 
     @classmethod
     def from_file(cls, path: str | Path, threshold: float = DEFAULT_THRESHOLD) -> "AuthorityMatcher":
@@ -379,21 +382,45 @@ class AuthorityMatcher:
     def __len__(self) -> int:
         return len(self.records)
 
+    def _posting_set(self, what: tuple[str, str]) -> frozenset[int]:
+        cached = self._sets.get(what)
+        if cached is None:
+            kind, name = what
+            cached = frozenset((self._by_word if kind == "w" else self._by_family).get(name, ()))
+            self._sets[what] = cached
+        return cached
+
     def candidates(self, q: _Features) -> list[int]:
         """Record indexes that pass blocking, best pre-ranked first."""
         votes: dict[int, float] = defaultdict(float)
         usable = sorted((len(self._by_word.get(w, ())), w) for w in q.title_words)
         used = 0
+        common: list[str] = []
         for df, w in usable:
-            if df == 0 or df > self._common:
+            if df == 0:
+                continue
+            if df > self._common:
+                common.append(w)
                 continue
             for i in self._by_word[w]:
                 votes[i] += 1.0
             used += 1
             if used == _MAX_BLOCK_WORDS:
                 break
-        if q.families:
-            surname = q.families[0].rsplit(" ", 1)[-1]
+        if used < 2 and common:
+            # Few rare words: two common words (or a common word and the
+            # surname) together are rare enough.
+            sets = [self._posting_set(("w", w)) for w in common[:3]]
+            if q.surname:
+                sets.append(self._posting_set(("f", q.surname)))
+            for x in range(len(sets)):
+                for y in range(x + 1, len(sets)):
+                    both = sets[x] & sets[y]
+                    if len(both) <= 4 * self._common:
+                        for i in both:
+                            votes[i] += 2.0
+        if q.surname:
+            surname = q.surname
             posting = self._by_family.get(surname, ())
             if len(posting) <= self._common:
                 for i in posting:
@@ -403,6 +430,16 @@ class AuthorityMatcher:
                     votes[i] += 2.5
         if not votes:
             return []
+        if q.surname and len(votes) > _MAX_CANDIDATES:
+            # break ties among title-word candidates by surname and year
+            surname = q.surname
+            feat = self._feat
+            for i in votes:
+                f = feat[i]
+                if f.surname == surname:
+                    votes[i] += 1.5
+                if q.year is not None and f.year == q.year:
+                    votes[i] += 0.5
         return [i for i, _ in heapq.nlargest(_MAX_CANDIDATES, votes.items(), key=lambda kv: kv[1])]
 
     def match(self, ref: Reference) -> MatchResult:

@@ -62,7 +62,10 @@ def significant_pairs(text: str) -> tuple[tuple[str, str], ...]:
         for w in _NON_WORD.split(fold(piece)):
             if not w:
                 continue
-            if w in STOPWORDS and not (out and out[-1][0] in _PART_WORDS):
+            # a capital letter after the first word is a part designation
+            # ("Physical Review E"), even where it spells a stopword
+            letter = len(piece) == 1 and piece.isupper() and bool(out)
+            if w in STOPWORDS and not letter and not (out and out[-1][0] in _PART_WORDS):
                 continue
             out.append((w, piece))
     return tuple(out)
