@@ -190,3 +190,24 @@ def test_whole_table_round_trips(style):
             assert back.how == AMBIGUOUS and set(back.candidates) >= set(shared[v.abbreviation])
     collisions = {a: f for a, f in shared.items() if len(f) > 1}
     assert set(collisions) == {"Doc. Math.", "Discrete Math. Appl."}   # known real clashes
+
+
+# Spellings found in the venue fields of a real bibliography (the mathlib4
+# references.bib behind tests/fixtures/venues/gold-sample.jsonl).
+@pytest.mark.parametrize("name,expected", [
+    ("Ann. Math. (2)", "Ann. Math."),                                    # series mark after the title
+    ("Journal of Symbolic Logic", "J. Symb. Log."),                      # "The" left out
+    ("Theory and Applications of Categories [electronic only]", "Theory Appl. Categ."),
+    ("Z. Wahrsch. Verw. Gebiete", "Z. Wahrscheinlichkeitstheor. Verw. Geb."),
+    ("arXiv preprint arXiv:1503.02349", "arXiv preprint arXiv:1503.02349"),  # not a venue: untouched
+])
+def test_real_world_spellings(style, name, expected):
+    assert style.abbreviate(name).result == expected
+
+
+def test_sentence_stop_is_not_an_abbreviation(style):
+    from normform.venues.style import looks_abbreviated
+
+    assert not looks_abbreviated("Bulletin des Sciences Mathématiques. Deuxième Série")
+    assert looks_abbreviated("Tohoku Math. J. (2)")
+    assert style.abbreviate("Bulletin des Sciences Mathématiques. Deuxième Série").how == "iso4 engine"

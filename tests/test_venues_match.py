@@ -226,3 +226,17 @@ def test_enrich_keeps_the_lines_provenance_and_own_identifiers():
     assert out.provenance.raw == "the line"
     assert [i.scheme for i in out.identifiers] == ["doi", "arxiv"]
     assert "title" in supplied and out.title == LIB[0].title
+
+
+def test_csl_json_library_file(tmp_path):
+    from normform.venues.errors import LibraryError
+    from normform.venues.match import load_library
+
+    rows = [r["gold"] for r in _rows()[:5]]
+    (tmp_path / "lib.json").write_text(json.dumps(rows), "utf-8")
+    (tmp_path / "lib.jsonl").write_text("".join(json.dumps(r) + "\n" for r in rows), "utf-8")
+    assert len(load_library(tmp_path / "lib.json")) == len(load_library(tmp_path / "lib.jsonl")) == 5
+    (tmp_path / "bad.jsonl").write_text(json.dumps(rows[0]) + "\n{oops\n", "utf-8")
+    with pytest.raises(LibraryError) as info:
+        load_library(tmp_path / "bad.jsonl")
+    assert info.value.line == 2

@@ -226,84 +226,92 @@ class _TableDriver:
 # ------------------------------------------------------------ raw nodes -----
 # Intermediate objects produced by the grammar, replaced by the resolver.
 
-@dataclass(frozen=True)
-class _Name:
-    name: str
-    span: A.Span
+class _Raw:
+    """Base of the raw nodes: plain slotted objects (built once per parse, never hashed
+    or compared, so they skip the cost of a frozen dataclass's __init__)."""
+
+    __slots__ = ()
+
+    def __repr__(self) -> str:
+        return f"{type(self).__name__}({', '.join(repr(getattr(self, s)) for s in self.__slots__)})"
 
 
-@dataclass(frozen=True)
-class _Apply:
-    name: str
-    args: tuple
-    span: A.Span
-    bracket: bool = False
+class _Name(_Raw):
+    __slots__ = ("name", "span")
+
+    def __init__(self, name: str, span: A.Span):
+        self.name, self.span = name, span
 
 
-@dataclass(frozen=True)
-class _Sub:
-    name: str
-    indices: tuple
-    span: A.Span
+class _Apply(_Raw):
+    __slots__ = ("name", "args", "span")
+
+    def __init__(self, name: str, args: tuple, span: A.Span):
+        self.name, self.args, self.span = name, args, span
 
 
-@dataclass(frozen=True)
-class _Arg:
-    kind: str  # "eq", "range", "range_bare", "ge", "div"
-    parts: tuple
-    span: A.Span
+class _Sub(_Raw):
+    __slots__ = ("name", "indices", "span")
+
+    def __init__(self, name: str, indices: tuple, span: A.Span):
+        self.name, self.indices, self.span = name, indices, span
 
 
-@dataclass(frozen=True)
-class _BraceList:
-    items: tuple
-    span: A.Span
+class _Arg(_Raw):
+    __slots__ = ("kind", "parts", "span")  # kind: "eq", "range", "range_bare", "ge", "div"
+
+    def __init__(self, kind: str, parts: tuple, span: A.Span):
+        self.kind, self.parts, self.span = kind, parts, span
 
 
-@dataclass(frozen=True)
-class _DotsMark:
-    span: A.Span
+class _BraceList(_Raw):
+    __slots__ = ("items", "span")
+
+    def __init__(self, items: tuple, span: A.Span):
+        self.items, self.span = items, span
 
 
-@dataclass(frozen=True)
-class _Bound:
-    kind: str  # "eq", "ge", "gt", "div", "chain", "range", "var"
-    var: str | None
-    parts: tuple
-    span: A.Span
+class _DotsMark(_Raw):
+    __slots__ = ("span",)
+
+    def __init__(self, span: A.Span):
+        self.span = span
 
 
-@dataclass(frozen=True)
-class _BigSub:
-    op: str
-    bound: _Bound
-    sup: Any
-    body: Any
-    span: A.Span
+class _Bound(_Raw):
+    __slots__ = ("kind", "var", "parts", "span")  # kind: "eq", "ge", "gt", "div", "chain", "range", "var"
+
+    def __init__(self, kind: str, var: str | None, parts: tuple, span: A.Span):
+        self.kind, self.var, self.parts, self.span = kind, var, parts, span
 
 
-@dataclass(frozen=True)
-class _BigCall:
-    op: str
-    args: tuple
-    span: A.Span
+class _BigSub(_Raw):
+    __slots__ = ("op", "bound", "sup", "body", "span")
+
+    def __init__(self, op: str, bound: _Bound, sup: Any, body: Any, span: A.Span):
+        self.op, self.bound, self.sup, self.body, self.span = op, bound, sup, body, span
 
 
-@dataclass(frozen=True)
-class _Rel:
-    ops: tuple
-    operands: tuple
-    modulus: Any
-    mod_span: A.Span | None
-    span: A.Span
+class _BigCall(_Raw):
+    __slots__ = ("op", "args", "span")
+
+    def __init__(self, op: str, args: tuple, span: A.Span):
+        self.op, self.args, self.span = op, args, span
 
 
-@dataclass(frozen=True)
-class _Seg:
-    kind: str  # "seg", "with", "for", "if"
-    rel: Any
-    tails: tuple  # (("for"|"if"|"otherwise", cond or None), ...)
-    span: A.Span
+class _Rel(_Raw):
+    __slots__ = ("ops", "operands", "modulus", "mod_span", "span")
+
+    def __init__(self, ops: tuple, operands: tuple, modulus: Any, mod_span: A.Span | None, span: A.Span):
+        self.ops, self.operands, self.modulus, self.mod_span, self.span = ops, operands, modulus, mod_span, span
+
+
+class _Seg(_Raw):
+    __slots__ = ("kind", "rel", "tails", "span")  # kind: "seg", "with", "for", "if"
+
+    def __init__(self, kind: str, rel: Any, tails: tuple, span: A.Span):
+        # tails: (("for"|"if"|"otherwise"|"with", cond or None), ...)
+        self.kind, self.rel, self.tails, self.span = kind, rel, tails, span
 
 
 def _t(tok: Any) -> str:

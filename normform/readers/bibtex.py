@@ -142,8 +142,8 @@ def read_bibtex(text: str, path: str | None = None) -> BibtexResult:
     entries: dict[str, tuple[str, dict[str, str], int]] = {}
     order: list[str] = []
     for kind, key, fields, start in raw_entries:
-        line, col = _line_col(text, start)
         if key.lower() in seen:
+            line, col = _line_col(text, start)
             result.errors.append(BibtexError(f"duplicate entry key {key!r}; the first entry is kept",
                                              line=line, column=col, source=text, path=path))
             continue
@@ -152,6 +152,7 @@ def read_bibtex(text: str, path: str | None = None) -> BibtexResult:
         for name, value_list in fields:
             lname = name.lower()
             if lname in values:
+                line, col = _line_col(text, start)
                 result.errors.append(BibtexError(f"entry {key!r} repeats field {name!r}; the first is kept",
                                                  line=line, column=col, source=text, path=path))
                 continue

@@ -33,6 +33,11 @@ AMBIGUOUS = "ambiguous"
 UNKNOWN = "unknown"
 
 _ABBREVIATED_WORD = re.compile(r"\b\w+\.(?=\s|$|,|\))")
+# Not a venue at all: an identifier or address that landed in the venue field.
+_NOT_A_VENUE = re.compile(r"arxiv|\bdoi\b|https?://|www\.|\b10\.\d{4,9}/", re.I)
+_ANNOTATION = re.compile(r"\s*\[[^\]]*\]\s*$")
+# A trailing annotation ("[electronic only]") or series mark ("(2)", "(N.S.)").
+_TRAILER = re.compile(r"\s*(\[[^\]]*\]|\((\d+|N\.\s?S\.|[A-Z][a-z]*\.?)\))\s*$")
 
 
 @dataclass(frozen=True, slots=True)
@@ -50,8 +55,19 @@ class Rewrite:
 
 
 def looks_abbreviated(name: str) -> bool:
-    """True when some word ends in a full stop (``J. Algebra``, ``Math. Z.``)."""
-    return bool(_ABBREVIATED_WORD.search(name))
+    """True when at least a third of the title's words end in a full stop.
+
+    ``J. Algebra`` and ``Tohoku Math. J. (2)`` are abbreviated; ``Bulletin des
+    Sciences Mathématiques. Deuxième Série`` is a full title with a sentence
+    stop, and so is ``Journal of Algebra.`` (a long last word's stop is a
+    sentence end).
+    """
+    text = name.rstrip()
+    last = text.rsplit(None, 1)[-1] if text else ""
+    if last.endswith(".") and len(last) > 8:
+        text = text[:-1]
+    dotted = len(_ABBREVIATED_WORD.findall(text))
+    return dotted > 0 and 3 * dotted >= max(len(significant(text)), 1)
 
 
 def _fits(abbr_word: str, full_word: str) -> bool:
@@ -97,6 +113,14 @@ class VenueStyle:
 
     # -- lookups ------------------------------------------------------------
     def _table_venues(self, name: str) -> tuple[list[Venue], str] | None:
+        found = self._table_venues_exact(name)
+        if found is None:
+            bare = _TRAILER.sub("", name)
+            if bare != name and bare:
+                found = self._table_venues_exact(bare)
+        return found
+
+    def _table_venues_exact(self, name: str) -> tuple[list[Venue], str] | None:
         if self.house is not None:
             found = self.house.venues_for(name)
             if found:
@@ -118,6 +142,8 @@ class VenueStyle:
     # -- public API ---------------------------------------------------------
     def abbreviate(self, name: str) -> Rewrite:
         """The ISO 4 (or house) abbreviation of ``name``."""
+        if _NOT_A_VENUE.search(name):
+            return Rewrite(name, name, SAME)
         hit = self._table_venues(name)
         if hit:
             venues, how = hit
@@ -128,7 +154,7 @@ class VenueStyle:
         if looks_abbreviated(name):
             # Re-abbreviating an abbreviation garbles it; go through its full title.
             full = self.expand(name)
-            if full.how in (AMBIGUOUS, UNKNOWN, SAME):
+            if full.how in (AMBIGUOUS, UNKNOWN, SAME) or full.result == name:
                 return Rewrite(name, name, full.how, full.candidates)
             again = self.abbreviate(full.result)
             return Rewrite(name, again.result, full.how)
@@ -136,10 +162,14 @@ class VenueStyle:
             return Rewrite(name, self._engine().abbreviate(name), FORMER)
         if len(significant(name)) == 0:
             return Rewrite(name, name, UNKNOWN)
-        return Rewrite(name, self._engine().abbreviate(name), ENGINE)
+        # an "[electronic only]"-style annotation is not part of the title
+        plain = _ANNOTATION.sub("", name) or name
+        return Rewrite(name, self._engine().abbreviate(plain), ENGINE)
 
     def expand(self, name: str) -> Rewrite:
         """The full title of ``name`` when exactly one title fits; else unchanged."""
+        if _NOT_A_VENUE.search(name):
+            return Rewrite(name, name, SAME)
         hit = self._table_venues(name)
         if hit:
             venues, how = hit
@@ -152,7 +182,7 @@ class VenueStyle:
         if not looks_abbreviated(name):
             return Rewrite(name, name, SAME)
         k = fold(name)
-        # Step 3: titles of the collection whose abbreviation is this one.
+        # Titles of the collection whose abbreviation is this one, or that it fits.
         from_collection = {full for full in self._collection.values()
                            if key(self.abbreviate_plain(full)) == key(name) or fits(k, full)}
         if len(from_collection) == 1:

@@ -43,8 +43,11 @@ def words(text: str) -> tuple[str, ...]:
 
 @lru_cache(maxsize=65536)
 def key(text: str) -> str:
-    """Equality key: folded words joined by single spaces."""
-    return " ".join(words(text))
+    """Equality key: folded words joined by single spaces, a leading "The" dropped."""
+    w = words(text)
+    if len(w) > 1 and w[0] == "the":
+        w = w[1:]
+    return " ".join(w)
 
 
 # A letter after these is a part designation ("Series A"), not an article.
