@@ -59,7 +59,8 @@ def run(args: argparse.Namespace, *, toolkit: str | None = None) -> int:
         print(f"normform clean: {exc}", file=sys.stderr)
         return 2
     check = "OK" if result.ok else "MISMATCH"
-    print(f"lines in: {result.lines_in:,} ({result.blank:,} blank); references read: "
+    entries = f"entry files: {result.entry_files:,}; " if result.entry_files else ""
+    print(f"{entries}lines in: {result.lines_in:,} ({result.blank:,} blank); references read: "
           f"{result.references_read:,}; records out: {result.records:,}: {check}")
     rate = result.records / result.seconds if result.seconds > 0 else 0.0
     print(f"needs review: {result.needs_review:,}; duplicate clusters: {result.clusters:,}; "

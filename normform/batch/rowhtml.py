@@ -66,7 +66,7 @@ def _well_formed(mathml: str) -> str | None:
 
 
 def formula_row(item, mathml: str | None, ascii_form: str | None, error: str | None) -> str:
-    where = escape(f"{item.entry or ''} {item.file}:{item.line or ''}".strip())
+    where = escape(f"{item.entry or ''} {_short(item.file)}:{item.line or ''}".strip())
     if error is None and mathml is not None:
         bad = _well_formed(mathml)
         if bad:

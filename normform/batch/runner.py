@@ -45,6 +45,7 @@ class CleanResult:
     seconds: float
     resumed: bool
     problems: list[str]
+    entry_files: int = 0
 
     @property
     def ok(self) -> bool:
@@ -263,7 +264,7 @@ def _complete(store: Store, err: TextIO, quiet: bool, resumed: bool) -> CleanRes
                        references_read=summary["references_read"], records=written,
                        needs_review=summary["needs_review"], clusters=summary["clusters"],
                        seconds=summary["run"]["seconds"], resumed=resumed,
-                       problems=list(summary["problems"]))
+                       problems=list(summary["problems"]), entry_files=summary["entry_files"])
 
 
 from normform.batch.progress import Progress  # noqa: E402  (kept light: no tqdm import until used)

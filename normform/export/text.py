@@ -51,6 +51,16 @@ def name_list(names: tuple[Name, ...]) -> str:
     return ", ".join(shown[:-1]) + " and " + shown[-1]
 
 
+def _edition(edition: str) -> str:
+    """``2`` -> ``ed. 2``; a bare ordinal (``2nd``, ``second``) gets ``ed.`` after it so
+    it does not read as a stray word; text that already says edition is kept."""
+    if re.fullmatch(r"\d+", edition):
+        return f"ed. {edition}"
+    if re.search(r"\bed\b|edn\b|edition|aufl|éd", edition, re.IGNORECASE):
+        return edition
+    return f"{edition} ed."
+
+
 def _range(first: str | None, last: str | None) -> str | None:
     if first and last:
         return f"{first}-{last}"
@@ -96,7 +106,7 @@ class HouseStyle(Exporter):
                     container += f" ({name_list(ref.editors)}, {'eds.' if len(ref.editors) > 1 else 'ed.'})"
                 out.append(container)
             if ref.edition:
-                out.append(f"ed. {ref.edition}" if re.fullmatch(r"\d+", ref.edition) else ref.edition)
+                out.append(_edition(ref.edition))
             if ref.series:
                 out.append(ref.series + (f" {ref.series_number}" if ref.series_number else "")
                            + (f", vol. {ref.volume}" if ref.volume else ""))

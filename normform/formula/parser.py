@@ -17,7 +17,7 @@ from typing import Any
 
 from normform.formula import ast as A
 from normform.formula.errors import FormulaError
-from normform.formula.functions import lookup
+from normform.formula.functions import ALIASES, lookup
 
 MAX_LENGTH = 5000
 """Longest accepted input, in characters."""
@@ -26,6 +26,7 @@ MAX_DEPTH = 120
 
 _parser = None
 _builder: "Any" = None
+_LARK_ERRORS: tuple = ()  # lark's LarkError, VisitError (imported with the parser)
 # ids of built nodes that still contain raw placeholders (names to resolve, applications,
 # sums...): the resolver rebuilds only those paths and keeps every clean subtree as it is.
 _DIRTY: set[int] = set()
@@ -33,9 +34,12 @@ _DIRTY: set[int] = set()
 
 def _get_parser():
     """Build the parser once per process (``import normform`` stays cheap)."""
-    global _parser, _builder
+    global _parser, _builder, _LARK_ERRORS
     if _parser is None:
         import lark
+        from lark.exceptions import LarkError, VisitError
+
+        _LARK_ERRORS = (LarkError, VisitError)
 
         from normform.resources import grammar_text
 
@@ -110,36 +114,122 @@ def _direct(rule, builder) -> tuple[Any, tuple[int, ...] | None]:
     return getattr(builder, name), (None if len(keep) == len(rule.expansion) else keep)
 
 
+def _first_chars(regex: str, flags: int) -> list | None:
+    """What the first character of a match of ``regex`` can be: a list of tests (a
+    character, a (low, high) range, or a one-character pattern such as ``\\d``), or
+    None for "anything" (whenever the pattern is not simple enough to tell)."""
+    import re
+
+    try:
+        from re import _constants as C, _parser as sre
+    except ImportError:  # pragma: no cover - older layout
+        return None
+    if flags & (re.IGNORECASE | re.VERBOSE):
+        return None
+    cats = {C.CATEGORY_DIGIT: r"\d", C.CATEGORY_SPACE: r"\s", C.CATEGORY_WORD: r"\w"}
+    tests: list = []
+
+    def seq(items) -> bool:  # add the tests of a sequence; True if it can match empty
+        for op, av in items:
+            if op is C.LITERAL:
+                tests.append(chr(av))
+                return False
+            if op is C.IN:
+                for iop, iav in av:
+                    if iop is C.LITERAL:
+                        tests.append(chr(iav))
+                    elif iop is C.RANGE:
+                        tests.append((chr(iav[0]), chr(iav[1])))
+                    elif iop is C.CATEGORY and iav in cats:
+                        tests.append(cats[iav])
+                    else:
+                        raise ValueError
+                return False
+            if op is C.SUBPATTERN:
+                if not seq(av[-1]):
+                    return False
+            elif op is C.BRANCH:
+                empty = False
+                for branch in av[1]:
+                    empty |= seq(branch)
+                if not empty:
+                    return False
+            elif op in (C.MAX_REPEAT, C.MIN_REPEAT):
+                if not seq(av[2]) and av[0] > 0:
+                    return False
+            elif op is C.AT:
+                continue
+            else:
+                raise ValueError
+        return True
+
+    try:
+        if seq(sre.parse(regex, flags)):
+            return None
+    except Exception:
+        return None
+    return tests
+
+
+def _can_start(tests: list | None, c: str) -> bool:
+    if tests is None:
+        return True
+    import re
+
+    for t in tests:
+        if t.__class__ is tuple:
+            if t[0] <= c <= t[1]:
+                return True
+        elif len(t) == 1:
+            if t == c:
+                return True
+        elif re.fullmatch(t, c):
+            return True
+    return False
+
+
 class _TableDriver:
-    """A small LALR(1) driver over lark's own parse tables, lexer patterns and rule
+    """A small LALR(1) driver over lark's own parse tables, lexer terminals and rule
     callbacks for this grammar. Same tables and tree as ``lark.Lark.parse``, without
-    its per-token bookkeeping (line counters, interactive-parser hooks): several
-    times faster on short formulas. Tests compare both drivers."""
+    its per-token bookkeeping (line counters, interactive-parser hooks, Token objects
+    with line/column): several times faster on short formulas. Tests compare both."""
 
     def __init__(self, larkp):
+        import re
+
         from lark.parsers.lalr_analysis import Shift
 
         self.lark = larkp
         table = larkp.parser.parser.parser.parse_table
         callbacks = larkp.parser.parser.parser.callbacks
-        states: dict[int, dict[str, tuple]] = {}
-        for state, actions in table.states.items():
-            row = {}
-            for sym, (action, arg) in actions.items():
+        n = max(table.states) + 1
+        if set(table.states) != set(range(n)):
+            raise ValueError("unexpected state numbering")
+        # actions[state][terminal]: an int = shift to that state, a tuple = reduce;
+        # gotos[state][rule name]: the state after a reduction.
+        self.actions: list[dict[str, Any]] = [{} for _ in range(n)]
+        self.gotos: list[dict[str, int]] = [{} for _ in range(n)]
+        self.expected: list[set[str]] = [set() for _ in range(n)]
+        for state, row in table.states.items():
+            acts, gotos = self.actions[state], self.gotos[state]
+            for sym, (action, arg) in row.items():
+                terminal = sym.isupper() or sym.startswith("__ANON")
+                if terminal:
+                    self.expected[state].add(sym)
                 if action is Shift:
-                    row[sym] = (True, arg)
+                    (acts if terminal or sym == "$END" else gotos)[sym] = arg
                 else:
                     method, keep = _direct(arg, larkp.options.transformer)
-                    row[sym] = (False, (len(arg.expansion), arg.origin.name, method or callbacks[arg],
-                                        _passthrough(arg), keep))
-            states[state] = row
-        self.states = states
+                    acts[sym] = (len(arg.expansion), arg.origin.name, method or callbacks[arg],
+                                 _passthrough(arg), keep)
         self.start = table.start_states["start"]
         self.end = table.end_states["start"]
         lexer = larkp.parser.lexer
         scanner = lexer.scanner  # builds the compiled patterns
-        self.mres = [m for m in scanner._mres]
-        self.ignore = set(lexer.ignore_types)
+        mres = list(scanner._mres)
+        if len(mres) != 1:
+            raise ValueError("unexpected lexer layout")
+        self.ignore = frozenset(lexer.ignore_types)
         # keywords lexed as NAME are re-typed (lark does this with a callback and a regex;
         # a dict of the same keyword strings is quicker)
         self.keywords: dict[str, dict[str, str]] = {}
@@ -148,79 +238,123 @@ class _TableDriver:
             if not all(t.pattern.type == "str" for t in terms):
                 raise ValueError("unexpected lexer callback")
             self.keywords[typ] = {t.pattern.value: t.name for t in terms}
-        # one pass over the text: lark's token patterns, then a catch-all for a bad character
-        if len(self.mres) != 1:
-            raise ValueError("unexpected lexer layout")
+        # The lexer: lark's one alternation of all terminals (in lark's priority order),
+        # split by first character. At each position only the terminals that can start
+        # with that character are tried, in the same order, so the first match is the
+        # one lark's alternation gives; a character no terminal can start is an error.
+        self.flags = mres[0].flags
+        self.terms = [(t.name, t.pattern.to_regexp(), t.pattern.max_width) for t in scanner.terminals]
+        joined = "|".join(f"(?P<{name}>{rx})" for name, rx, _ in self.terms)
+        if joined != mres[0].pattern:
+            raise ValueError("unexpected lexer pattern")
+        self.firsts = [_first_chars(rx, self.flags) for _, rx, _ in self.terms]
+        self.dispatch: dict[str, Any] = {}
+        for c in "".join(chr(i) for i in range(32, 127)) + "\t\n":
+            self._bucket(c)
+        self.terminal_names = set(lexer.terminals_by_name)
+
+    def _bucket(self, c: str) -> Any:
+        """What to do at character ``c``: a terminal name (a one-character token that no
+        other terminal can start), a compiled pattern, or None (no terminal starts so)."""
         import re
 
-        self.big = re.compile(f"{self.mres[0].pattern}|(?P<_BAD_>[\\s\\S])", self.mres[0].flags)
-        self.terminal_names = set(lexer.terminals_by_name)
+        cands = [t for t, first in zip(self.terms, self.firsts) if _can_start(first, c)]
+        if not cands:
+            entry: Any = None
+        elif len(cands) == 1 and cands[0][2] == 1 and cands[0][0] not in self.ignore \
+                and cands[0][0] not in self.keywords and re.fullmatch(cands[0][1], c, self.flags):
+            entry = cands[0][0]
+        else:
+            entry = re.compile("|".join(f"(?P<{name}>{rx})" for name, rx, _ in cands), self.flags)
+        self.dispatch[c] = entry
+        return entry
 
     def tokens(self, text: str) -> tuple[list[_Tok], int | None]:
         """All tokens, and the offset of an unreadable character (None if none)."""
         out: list[_Tok] = []
-        ignore, keywords = self.ignore, self.keywords
-        bad = None
         append = out.append
-        for m in self.big.finditer(text):
-            typ = m.lastgroup
-            if typ in ignore:
+        ignore, keywords, dispatch = self.ignore, self.keywords, self.dispatch
+        tok = _Tok
+        pos, n = 0, len(text)
+        bad = None
+        while pos < n:
+            c = text[pos]
+            entry = dispatch.get(c, _tok_missing)
+            if entry is _tok_missing:
+                entry = self._bucket(c)
+            if entry.__class__ is str:
+                append(tok(entry, c, pos, pos + 1))
+                pos += 1
                 continue
-            start, end = m.span()
-            if typ == "_BAD_":
-                bad = start
+            m = entry.match(text, pos) if entry is not None else None
+            if m is None:
+                bad = pos
                 break
-            value = text[start:end]
-            kw = keywords.get(typ)
-            if kw is not None:
-                typ = kw.get(value, typ)
-            append(_Tok(typ, value, start, end))
-        end = len(text) if bad is None else bad
-        out.append(_Tok("$BAD" if bad is not None else "$END", "", end, end))
+            typ = m.lastgroup
+            end = m.end()
+            if typ not in ignore:
+                value = text[pos:end]
+                kw = keywords.get(typ)
+                if kw is not None:
+                    typ = kw.get(value, typ)
+                append(tok(typ, value, pos, end))
+            pos = end
+        end = n if bad is None else bad
+        append(tok("$BAD" if bad is not None else "$END", "", end, end))
         return out, bad
 
     def parse(self, text: str):
-        states = self.states
-        stack = [self.start]
+        actions, gotos = self.actions, self.gotos
+        state = self.start
+        stack = [state]
+        push = stack.append
         values: list = []
+        vpush = values.append
         toks, bad = self.tokens(text)
-        row = states[self.start]
+        row = actions[state]
+        accept = self.end
         for tok in toks:
             typ = tok.type
             while True:
                 act = row.get(typ)
+                if act.__class__ is int:  # shift
+                    push(act)
+                    vpush(tok)
+                    row = actions[act]
+                    break
                 if act is None:
-                    expected = {k for k in row if k.isupper() or k.startswith("__ANON")}
+                    expected = self.expected[stack[-1]]
                     if typ == "$BAD":  # an unreadable character: say what this state accepts
                         raise _SyntaxError(bad, text[bad:bad + 1], expected, char=True)
                     raise _SyntaxError(tok.start_pos, tok.value, expected, end=typ == "$END")
-                if act[0]:
-                    stack.append(act[1])
-                    row = states[act[1]]
-                    values.append(tok)
-                    break
-                size, origin, callback, through, keep = act[1]
+                size, origin, callback, through, keep = act
                 if through is not None:  # `?rule` with one kept child: the child is the value
-                    value = values[through - size]
+                    if size != 1:
+                        value = values[through - size]
+                        del values[-size:]
+                        vpush(value)
+                    del stack[-size:]
+                elif size == 1:
+                    values[-1] = callback([values[-1]] if keep is None else [])
+                    stack.pop()
+                elif size:
+                    children = values[-size:]
                     del values[-size:]
                     del stack[-size:]
-                    values.append(value)
+                    if keep is not None:  # drop punctuation tokens, as lark's child filter does
+                        children = [children[i] for i in keep]
+                    vpush(callback(children))
                 else:
-                    if size:
-                        children = values[-size:]
-                        del values[-size:]
-                        del stack[-size:]
-                        if keep is not None:  # drop punctuation tokens, as lark's child filter does
-                            children = [children[i] for i in keep]
-                    else:
-                        children = []
-                    values.append(callback(children))
-                state = states[stack[-1]][origin][1]
-                stack.append(state)
-                row = states[state]
-                if state == self.end and typ == "$END":
+                    vpush(callback([]))
+                state = gotos[stack[-1]][origin]
+                push(state)
+                row = actions[state]
+                if state == accept and typ == "$END":
                     return values[-1]
         raise AssertionError("parser stopped before the end")  # pragma: no cover
+
+
+_tok_missing = object()
 
 
 # ------------------------------------------------------------ raw nodes -----
@@ -347,6 +481,119 @@ def _join(*items: Any) -> A.Span:
     return A.NO_SPAN if lo is None else (lo, hi)
 
 
+# Fast node constructors for the hot path. A frozen dataclass's __init__ sets each
+# field through object.__setattr__; filling the instance dict directly gives the same
+# object (same fields, ==, hash and repr) about four times quicker, and building
+# nodes is a large share of a parse. Every field is set, in the dataclass's order.
+_new = object.__new__
+
+
+def _symbol(name: str, span: A.Span) -> A.Symbol:
+    o = _new(A.Symbol)
+    d = o.__dict__
+    d["name"] = name
+    d["span"] = span
+    return o
+
+
+def _integer(value: int, span: A.Span) -> A.Integer:
+    o = _new(A.Integer)
+    d = o.__dict__
+    d["value"] = value
+    d["span"] = span
+    return o
+
+
+def _constant(name: str, written: str, span: A.Span) -> A.Constant:
+    o = _new(A.Constant)
+    d = o.__dict__
+    d["name"] = name
+    d["written"] = written
+    d["span"] = span
+    return o
+
+
+def _binop(op: str, left: Any, right: Any, implicit: bool, span: A.Span) -> A.BinOp:
+    o = _new(A.BinOp)
+    d = o.__dict__
+    d["op"] = op
+    d["left"] = left
+    d["right"] = right
+    d["implicit"] = implicit
+    d["span"] = span
+    return o
+
+
+def _power(base: Any, exponent: Any, span: A.Span) -> A.Power:
+    o = _new(A.Power)
+    d = o.__dict__
+    d["base"] = base
+    d["exponent"] = exponent
+    d["span"] = span
+    return o
+
+
+def _unary(op: str, operand: Any, span: A.Span) -> A.UnaryOp:
+    o = _new(A.UnaryOp)
+    d = o.__dict__
+    d["op"] = op
+    d["operand"] = operand
+    d["span"] = span
+    return o
+
+
+def _factorial(operand: Any, double: bool, span: A.Span) -> A.Factorial:
+    o = _new(A.Factorial)
+    d = o.__dict__
+    d["operand"] = operand
+    d["double"] = double
+    d["span"] = span
+    return o
+
+
+def _call(name: str, args: tuple, written: str, span: A.Span) -> A.Call:
+    o = _new(A.Call)
+    d = o.__dict__
+    d["name"] = name
+    d["args"] = args
+    d["written"] = written
+    d["span"] = span
+    return o
+
+
+def _seqref(name: str, indices: tuple, subscript: bool, span: A.Span) -> A.SeqRef:
+    o = _new(A.SeqRef)
+    d = o.__dict__
+    d["name"] = name
+    d["indices"] = indices
+    d["subscript"] = subscript
+    d["span"] = span
+    return o
+
+
+def _relation(ops: tuple, operands: tuple, modulus: Any, span: A.Span) -> A.Relation:
+    o = _new(A.Relation)
+    d = o.__dict__
+    d["ops"] = ops
+    d["operands"] = operands
+    d["modulus"] = modulus
+    d["span"] = span
+    return o
+
+
+def _statement(body: Any, label: str | None, conditions: tuple, initial: tuple, note: str | None,
+               span: A.Span) -> A.Statement:
+    o = _new(A.Statement)
+    d = o.__dict__
+    d["body"] = body
+    d["label"] = label
+    d["conditions"] = conditions
+    d["initial"] = initial
+    d["note"] = note
+    d["span"] = span
+    return o
+
+
 _SUPERSCRIPTS = str.maketrans("⁰¹²³⁴⁵⁶⁷⁸⁹", "0123456789")
 _PROD_WORDS = {"prod", "Prod", "Product", "product", "∏"}
 
@@ -370,69 +617,84 @@ def _mark(node: Any, *kids: Any) -> Any:
 
 
 def _climb(ch: list) -> Any:
-    """Turn a flat chain [signs, operand, op, signs, operand, operand, ...] into a tree."""
-    items: list[list] = []  # [operator before (None / type / "JUXT"), signs, operand]
-    signs: list = []
-    op: str | None = None
+    """Turn a flat chain [signs, operand, op, signs, operand, operand, ...] into a tree.
+
+    Operator-precedence parsing with two stacks over the table above (the same trees
+    as recursive precedence climbing, without a call per level): a binary operator
+    first reduces the operators on the stack that bind at least as tightly (for a
+    right-associative one, strictly more tightly); a sign covers the operators of
+    its SIGN_LEVEL and above."""
+    if len(ch) == 1:
+        return ch[0]
+    out: list = []  # operands
+    ops: list = []  # pending operators: (level, name) or (level, sign token)
+    dirty = _DIRTY
+    node_t = A.Node
+    last_op: str | None = None  # the binary operator before the current item
     want_operand = True
     nesting = 0
+
+    def reduce(level: int) -> None:
+        """Apply the stacked operators that take their right operand before one of ``level``."""
+        while ops:
+            top_level, top = ops[-1]
+            if top.__class__ is str:
+                if top_level < level or (top_level == level and top in RIGHT_ASSOC):
+                    return
+                ops.pop()
+                right = out.pop()
+                left = out[-1]
+                ls, rs = left.span, right.span
+                if ls == A.NO_SPAN:
+                    span = rs
+                elif rs == A.NO_SPAN:
+                    span = ls
+                else:
+                    span = (ls[0] if ls[0] < rs[0] else rs[0], ls[1] if ls[1] > rs[1] else rs[1])
+                if top == "POW":
+                    node = _power(left, right, span)
+                elif top == "JUXT":
+                    node = _binop("*", left, right, True, span)
+                else:
+                    node = _binop(_OPS[top], left, right, False, span)
+                if not isinstance(left, node_t) or id(left) in dirty \
+                        or not isinstance(right, node_t) or id(right) in dirty:
+                    dirty.add(id(node))
+                out[-1] = node
+            else:  # a sign
+                if level >= top_level:
+                    return
+                ops.pop()
+                if top.type == "MINUS":
+                    inner = out[-1]
+                    node = _unary("-", inner, (top.start_pos, _sp(inner)[1]))
+                    if not isinstance(inner, node_t) or id(inner) in dirty:
+                        dirty.add(id(node))
+                    out[-1] = node
+
     for c in ch:
         typ = getattr(c, "type", None)
-        if typ is None:  # a node
-            items.append([op if not want_operand or op is not None else (None if not items else "JUXT"),
-                          signs, c])
-            if not want_operand:
-                items[-1][0] = "JUXT"
-            signs, op, want_operand = [], None, False
-        elif typ == "DOTS":
-            items.append([op, signs, _DotsMark(_sp(c))])
-            signs, op, want_operand = [], None, False
+        if typ is None or typ == "DOTS":  # an operand
+            if not want_operand:  # directly after another operand: an implicit product
+                reduce(PRECEDENCE["JUXT"])
+                ops.append((PRECEDENCE["JUXT"], "JUXT"))
+                last_op = "JUXT"
+            out.append(c if typ is None else _DotsMark(_sp(c)))
+            want_operand = False
         elif want_operand:  # a sign
-            signs.append(c)
+            ops.append((SIGN_LEVEL.get(last_op, 6), c))
             nesting += 1
         else:
-            op, want_operand = typ, True
+            level = PRECEDENCE[typ]
+            reduce(level)
+            ops.append((level, typ))
+            last_op, want_operand = typ, True
             if typ == "POW":
                 nesting += 1
         if nesting > MAX_DEPTH:
             raise _PendingError(f"formula nested deeper than {MAX_DEPTH} levels", _sp(c))
-    if len(items) == 1 and not items[0][1]:
-        return items[0][2]
-    pos = 0
-
-    def operand(sign_level: int) -> Any:
-        nonlocal pos
-        item = items[pos]
-        if item[1]:
-            sign = item[1][0]
-            item[1] = item[1][1:]
-            inner = chain(sign_level, sign_level)
-            if sign.type == "PLUS":
-                return inner
-            return _mark(A.UnaryOp("-", inner, span=(sign.start_pos, _sp(inner)[1])), inner)
-        pos += 1
-        return item[2]
-
-    def chain(min_level: int, sign_level: int) -> Any:
-        nonlocal pos
-        left = operand(sign_level)
-        while pos < len(items):
-            op = items[pos][0]
-            level = PRECEDENCE[op]
-            if level < min_level:
-                break
-            right = chain(level if op in RIGHT_ASSOC else level + 1, SIGN_LEVEL.get(op, 6))
-            span = _join(left, right)
-            if op == "POW":
-                node = A.Power(left, right, span=span)
-            elif op == "JUXT":
-                node = A.BinOp("*", left, right, implicit=True, span=span)
-            else:
-                node = A.BinOp(_OPS[op], left, right, span=span)
-            left = _mark(node, left, right)
-        return left
-
-    return chain(0, 3)
+    reduce(-1)
+    return out[0]
 
 
 class _Build(_LarkTransformer):
@@ -555,10 +817,10 @@ class _Build(_LarkTransformer):
         return signs
 
     def factorial(self, ch):
-        return _mark(A.Factorial(ch[0], False, span=_join(*ch)), ch[0])
+        return _mark(_factorial(ch[0], False, _join(*ch)), ch[0])
 
     def double_factorial(self, ch):
-        return _mark(A.Factorial(ch[0], True, span=_join(*ch)), ch[0])
+        return _mark(_factorial(ch[0], True, _join(*ch)), ch[0])
 
     def superscript_power(self, ch):
         tok = _t(ch[1])
@@ -570,11 +832,11 @@ class _Build(_LarkTransformer):
             raise _raw_error("mixed superscript", ch[1])
         else:
             exp = A.Integer(int(tok.translate(_SUPERSCRIPTS)), span=span)
-        return _mark(A.Power(ch[0], exp, span=_join(*ch)), ch[0])
+        return _mark(_power(ch[0], exp, _join(*ch)), ch[0])
 
     # --- atoms
     def integer(self, ch):
-        return A.Integer(int(_t(ch[0])), span=_sp(ch[0]))
+        return _integer(int(ch[0].value), (ch[0].start_pos, ch[0].end_pos))
 
     def decimal(self, ch):
         return A.Decimal(_t(ch[0]), Fraction(_t(ch[0])), span=_sp(ch[0]))
@@ -584,7 +846,7 @@ class _Build(_LarkTransformer):
         self.standalone.add(name)
         if name in _CONSTANTS:  # pi, e, i...: constant or variable depends on context
             return _Name(name, _sp(ch[0]))
-        return A.Symbol(name, span=_sp(ch[0]))
+        return _symbol(name, (ch[0].start_pos, ch[0].end_pos))
 
     def apply(self, ch):
         node = _Apply(_t(ch[0]), tuple(ch[1]), _join(ch[0], *ch[1]))
@@ -608,13 +870,13 @@ class _Build(_LarkTransformer):
         return _BraceList(tuple(ch), _join(*ch))
 
     def gauss_floor(self, ch):
-        return _mark(A.Call("floor", (ch[0],), written="[]", span=_sp(ch[0])), ch[0])
+        return _mark(_call("floor", (ch[0],), "[]", _sp(ch[0])), ch[0])
 
     def gauss_ceil(self, ch):
-        return _mark(A.Call("ceiling", (ch[0],), written="⌈⌉", span=_sp(ch[0])), ch[0])
+        return _mark(_call("ceiling", (ch[0],), "⌈⌉", _sp(ch[0])), ch[0])
 
     def sqrt_sign(self, ch):
-        return _mark(A.Call("sqrt", (ch[1],), written="√", span=_join(*ch)), ch[1])
+        return _mark(_call("sqrt", (ch[1],), "√", _join(*ch)), ch[1])
 
     def bigop(self, ch):
         return ("prod" if _t(ch[0]) in _PROD_WORDS else "sum", _sp(ch[0]))
@@ -830,13 +1092,16 @@ def parse_statement(text: str) -> A.Statement:
     """Parse one formula line into a :class:`Statement`; raise :class:`FormulaError`."""
     if not isinstance(text, str):
         raise TypeError("formula text must be a str")
-    _check_limits(text)
-    math, note = split_note(text)
-    if not math.strip():
+    if len(text) > MAX_DEPTH:  # shorter text cannot break either limit
+        _check_limits(text)
+    if "-" in text or "—" in text or "–" in text:  # every attribution starts with a dash
+        math, note = split_note(text)
+    else:
+        math, note = text, None
+    if not math or math.isspace():
         _fail(text, 0, "empty formula", ("a formula",), "")
-    from lark.exceptions import LarkError, VisitError
-
-    parser = _get_parser()
+    parser = _parser if _parser is not None else _get_parser()
+    LarkError, VisitError = _LARK_ERRORS
     _builder.reset()
     try:
         label, segs = parser.parse(math)
@@ -944,13 +1209,14 @@ class _Resolver:
         # every name used on its own (not applied) anywhere: those are variables
         self.standalone: set[str] = info.standalone
         self.applies: list = info.applies
-        self.applied: set[str] = {a.name for a in info.applies}
+        self.applied: set[str] = {a.name for a in info.applies} if info.applies else set()
         self.bound_names: set[str] = info.bound_names
         self.sequences: set[str] = set()
         self.lhs_vars: set[str] = set()
-        self._find_sequences()
+        if info.applies:
+            self._find_sequences()
         for n in self.standalone:
-            if len(n) > 2 and n not in _GREEK and lookup(n, None) is not None and n not in _CONSTANTS:
+            if len(n) > 2 and n not in _GREEK and n in ALIASES and n not in _CONSTANTS:
                 where = next((a for a in info.applies if a.name == n), None)
                 raise _PendingError(f"{n} is a function: it needs its argument, as in {n}(x)",
                                     where.span if where is not None else (text.find(n), text.find(n) + len(n)))
@@ -991,6 +1257,9 @@ class _Resolver:
             label = "egf" if _t(self.label_token).lstrip()[:1] in "Ee" else "ogf"
         segs = []
         for seg in self.segs:  # `X with a(0)=1`: the initial value becomes its own clause
+            if not seg.tails:
+                segs.append(seg)
+                continue
             keep = tuple(t for t in seg.tails if t[0] != "with")
             segs.append(_Seg(seg.kind, seg.rel, keep, seg.span))
             segs.extend(_Seg("with", t[1], (), _sp(t[1])) for t in seg.tails if t[0] == "with")
@@ -1021,7 +1290,7 @@ class _Resolver:
             return branch
 
         main_value = body.operands[-1] if isinstance(body, A.Relation) else body
-        piece = take_tails(first, main_value)
+        piece = take_tails(first, main_value) if first.tails else False
         for seg in segs[1:]:
             if seg.kind == "for":
                 conditions.append(self.cond(seg.rel))
@@ -1064,7 +1333,7 @@ class _Resolver:
             else:
                 body = pw
         span = (0, len(self.text.rstrip()) if self.note is None else _join(*segs)[1])
-        return A.Statement(body, label, tuple(conditions), tuple(initial), self.note, span=span)
+        return _statement(body, label, tuple(conditions), tuple(initial), self.note, span)
 
     def initial(self, raw: _Rel) -> A.Initial | None:
         if not raw.ops or any(op != "=" for op in raw.ops) or raw.modulus is not None:
@@ -1097,18 +1366,19 @@ class _Resolver:
         return self.expr(raw)
 
     def rel(self, raw: _Rel, main: bool = False) -> A.Node:
-        operands = tuple(self.expr(o) for o in raw.operands)
+        expr = self.expr
+        operands = tuple([expr(o) for o in raw.operands])
         if raw.modulus is not None:
             modulus = self.expr(raw.modulus)
             if raw.ops and all(op == "==" for op in raw.ops):
-                return A.Relation(raw.ops, operands, modulus, span=raw.span)
+                return _relation(raw.ops, operands, modulus, raw.span)
             last = operands[-1]
             operands = operands[:-1] + (A.BinOp("mod", last, modulus, span=_join(last, raw.mod_span)),)
         elif raw.ops and "==" in raw.ops:
             pass  # `a == b` without modulus: plain congruence sign kept as written
         if not raw.ops:
             return operands[0]
-        return A.Relation(raw.ops, operands, None, span=raw.span)
+        return _relation(raw.ops, operands, None, raw.span)
 
     # -- expressions
     def expr(self, x: Any) -> A.Node:
@@ -1128,9 +1398,9 @@ class _Resolver:
         if x.implicit and isinstance(x.right, _Apply) and isinstance(right, A.BinOp) \
                 and right.implicit and isinstance(right.left, A.Symbol) and right.left.name == x.right.name:
             # `3n(n+1)` is (3*n)*(n+1), not 3*(n*(n+1)): keep products left-associative
-            left = A.BinOp("*", left, right.left, implicit=True, span=_join(left, right.left))
+            left = _binop("*", left, right.left, True, _join(left, right.left))
             right = right.right
-        return A.BinOp(x.op, left, right, implicit=x.implicit, span=x.span)
+        return _binop(x.op, left, right, x.implicit, x.span)
 
     def _misplaced(self, x: Any) -> A.Node:
         message = {
@@ -1168,15 +1438,15 @@ class _Resolver:
     def name(self, x: _Name) -> A.Node:
         n = x.name
         if n in self.bound or n in self.lhs_vars:
-            return A.Symbol(n, span=x.span)
+            return _symbol(n, x.span)
         const = _CONSTANTS.get(n)
         if const is not None:
             if n == "i" and (n in self.applied or self._bound_anywhere(n)):
-                return A.Symbol(n, span=x.span)
+                return _symbol(n, x.span)
             if const == "e" and self._bound_anywhere(n):
-                return A.Symbol(n, span=x.span)
-            return A.Constant(const, written=n, span=x.span)
-        return A.Symbol(n, span=x.span)
+                return _symbol(n, x.span)
+            return _constant(const, n, x.span)
+        return _symbol(n, x.span)
 
     def _bound_anywhere(self, name: str) -> bool:
         return name in self.bound_names
@@ -1191,10 +1461,10 @@ class _Resolver:
         if is_var and len(args) == 1:
             # `n(n+1)`, `x(1+x)`: a variable times a group
             sym = self.name(_Name(n, (x.span[0], x.span[0] + len(n))))
-            return A.BinOp("*", sym, self.expr(args[0]), implicit=True, span=x.span)
+            return _binop("*", sym, self.expr(args[0]), True, x.span)
         spec = lookup(n, len(args))
         if spec is not None and not is_var:
-            return A.Call(spec.name, tuple(self.expr(a) for a in args), written=n, span=x.span)
+            return _call(spec.name, tuple([self.expr(a) for a in args]), n, x.span)
         if spec is None:
             other = lookup(n, None)
             if other is not None and len(n) > 2 and n not in self.sequences:
@@ -1206,7 +1476,7 @@ class _Resolver:
             raise self.err(f"{n} is used both as a variable and as a sequence", x)
         if len(n) > 2 and n not in _GREEK and lookup(n, None) is not None:
             raise self.err(f"{n} is a function: write {n}(...)", x)
-        return A.SeqRef(n, tuple(self.expr(a) for a in args), subscript=subscript, span=x.span)
+        return _seqref(n, tuple([self.expr(a) for a in args]), subscript, x.span)
 
     def subscript(self, x: _Sub) -> A.Node:
         n = x.name
@@ -1335,10 +1605,10 @@ _EXPR_HANDLERS: dict[type, Any] = {
     _DotsMark: _Resolver._misplaced,
     _Rel: _Resolver._misplaced,
     A.BinOp: _Resolver._binop,
-    A.UnaryOp: lambda self, x: A.UnaryOp(x.op, self.expr(x.operand), span=x.span),
-    A.Power: lambda self, x: A.Power(self.expr(x.base), self.expr(x.exponent), span=x.span),
-    A.Factorial: lambda self, x: A.Factorial(self.expr(x.operand), x.double, span=x.span),
-    A.Call: lambda self, x: A.Call(x.name, tuple(self.expr(a) for a in x.args), written=x.written, span=x.span),
+    A.UnaryOp: lambda self, x: _unary(x.op, self.expr(x.operand), x.span),
+    A.Power: lambda self, x: _power(self.expr(x.base), self.expr(x.exponent), x.span),
+    A.Factorial: lambda self, x: _factorial(self.expr(x.operand), x.double, x.span),
+    A.Call: lambda self, x: _call(x.name, tuple([self.expr(a) for a in x.args]), x.written, x.span),
     A.Integer: lambda self, x: x,
     A.Decimal: lambda self, x: x,
     A.Rational: lambda self, x: x,
