@@ -14,6 +14,7 @@ import importlib
 import sys
 
 from normform import __version__
+from normform.errors import UsageError  # re-exported: commands raise normform.cli.UsageError
 
 # command -> (module, one-line help)
 COMMANDS: dict[str, tuple[str, str]] = {
@@ -26,10 +27,6 @@ COMMANDS: dict[str, tuple[str, str]] = {
     "venues": ("normform.venues.command", "abbreviate or expand venue names consistently (ISO 4)"),
     "match": ("normform.venues.match_command", "match reference lines against a curated bibliography and enrich them"),
 }
-
-
-class UsageError(Exception):
-    """Raised by commands for bad arguments; reported with exit code 2."""
 
 
 def _top_parser() -> argparse.ArgumentParser:

@@ -6,7 +6,7 @@ each directory ``normform.toml`` (the whole file is the table) wins over
 one is skipped).  Commands read their own sub-tables, e.g. ``links``::
 
     [tool.normform.links]
-    mr = "https://mathscinet.example/review/{id}"
+    mr = "https://reviews.example.org/mr/{id}"
 """
 
 from __future__ import annotations

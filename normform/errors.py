@@ -47,3 +47,11 @@ class PositionedError(ValueError):
 
     def to_dict(self) -> dict:
         return {"line": self.line, "column": self.column, "message": self.describe()}
+
+
+class UsageError(Exception):
+    """Bad command-line arguments; the CLI reports it with exit code 2.
+
+    Defined here rather than in ``normform.cli`` so that ``python -m
+    normform.cli`` (where cli is ``__main__``) still catches it.
+    """

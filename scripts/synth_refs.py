@@ -91,7 +91,15 @@ _PROC = ("Proceedings of the {n}th International Conference on Formal Power Seri
          "Combinatorics, Probability and Computing Workshop {y}",
          "Discrete Mathematics Days {y}", "Proc. Sympos. Pure Math.",
          "Proceedings of the {n}th Southeastern Conference on Combinatorics, Graph Theory and Computing",
-         "Séminaire de Probabilités XXV", "Algebraic Combinatorics and Computer Science")
+         "Séminaire de Probabilités XXV", "Algebraic Combinatorics and Computer Science",
+         "{n}th International Conference on Interactive Theorem Proving, ITP {y}, September 9-12, {y}, Portland, OR, USA",
+         "Automated Reasoning - {n}th International Joint Conference, IJCAR {y}, Paris, France, July 1-4, {y}, Proceedings, Part II",
+         "Formal Power Series and Algebraic Combinatorics (Quillfeather, {y})",
+         "Modular functions of one variable, IV (Proc. Internat. Summer School, Univ. Antwerp, Antwerp, {y})",
+         "Combinatorics '{n}: Proceedings of the Quillfeather Meeting, {y}",
+         "Number theory and physics. Based on the workshop “Enumeration and physics”, Vienna, Austria, March {y}",
+         "Proceedings of the {n}th ACM SIGPLAN International Conference on Certified Programs and Proofs",
+         "Foundations of Software Science and Computation Structures, FoSSaCS '{n}")
 _EDITIONS = ((2, "2nd", "second"), (3, "3rd", "third"), (4, "4th", "fourth"), (5, "5th", "fifth"))
 
 
@@ -319,7 +327,8 @@ def make_record(r: random.Random, i: int) -> dict:
             rec["publisher-place"] = place
         if r.random() < 0.35:
             rec["collection-title"] = r.choice(lx.SERIES)
-            rec["collection-number"] = str(r.randint(1, 2200))
+            if r.random() < 0.7:
+                rec["collection-number"] = str(r.randint(1, 2200))
         if typ == "book":
             if r.random() < 0.2:
                 rec["edition"] = str(r.choice(_EDITIONS)[0])
@@ -826,10 +835,12 @@ def render_template(rec: dict, r: random.Random) -> list[tuple[str, str]]:
             e = r.choice((num, word, num, word.capitalize()))
             b.o(r.choice((", ", ". "))).f(e, "edition").o(r.choice((" ed.", " edition", " edn.", " Edition", " ed")))
         if rec.get("collection-title"):
-            b.o(r.choice((", ", ". ", " (")))
+            opener = r.choice((", ", ". ", " ("))
+            b.o(opener)
             b.f(rec["collection-title"], "series")
-            b.o(r.choice((", vol. ", " ", ", no. ", ", Vol. ", " "))).f(rec.get("collection-number", ""), "series_number")
-            if b.p[-4][0] == " (" if len(b.p) >= 4 else False:
+            if rec.get("collection-number"):
+                b.o(r.choice((", vol. ", " ", ", no. ", ", Vol. ", " "))).f(rec["collection-number"], "series_number")
+            if opener == " (":
                 b.o(")")
         if typ in ("chapter", "paper-conference") and "page" in rec and r.random() < 0.5:
             pp, pg = _pages(rec["page"], r)

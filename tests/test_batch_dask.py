@@ -39,16 +39,15 @@ def test_dask_is_not_imported_by_the_local_engine(tmp_path):
     assert out.stdout.strip() == "False"
 
 
-def test_unreachable_scheduler_is_a_clear_error(tmp_path, capsys):
+def test_unreachable_scheduler_is_a_clear_error(tmp_path):
     import socket
 
-    from normform.batch import command
+    from normform.batch.engines import EngineError
 
     with socket.socket() as sock:          # a free loopback port nobody listens on
         sock.bind(("127.0.0.1", 0))
         port = sock.getsockname()[1]
     src = write_lines(tmp_path / "in.txt", 5)
-    code = command.main([str(src), "-o", str(tmp_path / "o"), "--engine", "dask",
-                         "--scheduler", f"tcp://127.0.0.1:{port}", "--quiet"], toolkit=FAKE)
-    assert code == 2
-    assert f"cannot reach the Dask scheduler at tcp://127.0.0.1:{port}" in capsys.readouterr().err
+    with pytest.raises(EngineError, match=f"cannot reach the Dask scheduler at tcp://127.0.0.1:{port}"):
+        clean([str(src)], tmp_path / "o", toolkit=FAKE, engine="dask", scheduler=f"tcp://127.0.0.1:{port}",
+              quiet=True, dask_timeout=2)

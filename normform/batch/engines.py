@@ -84,13 +84,14 @@ def run_local(chunks: Iterable[Chunk], settings: Settings, jobs: int) -> Iterato
         executor.shutdown(wait=True, cancel_futures=True)
 
 
-def run_dask(chunks: Iterable[Chunk], settings: Settings, scheduler: str) -> Iterator[tuple[Chunk, list]]:
+def run_dask(chunks: Iterable[Chunk], settings: Settings, scheduler: str,
+             connect_timeout: float = 20.0) -> Iterator[tuple[Chunk, list]]:
     try:
         from distributed import Client
     except ImportError as exc:  # optional extra
         raise EngineError("--engine dask needs the optional extra: pip install 'normform[dask]'") from exc
     try:
-        client = Client(scheduler, set_as_default=False, timeout="20s")
+        client = Client(scheduler, set_as_default=False, timeout=f"{connect_timeout}s")
     except (OSError, ValueError) as exc:
         raise EngineError(f"cannot reach the Dask scheduler at {scheduler}: {exc}") from exc
     try:

@@ -76,7 +76,8 @@ def clean(paths_in: list[str], outdir: str | Path, *, threshold: float = 0.9, jo
           engine: str = "local", scheduler: str | None = None, resume: bool = False,
           quiet: bool = False, chunk_size: int = 500, report_rows: int = 20000,
           similarity: float = 90.0, against: str | None = None, toolkit: str | None = None,
-          err: TextIO | None = None, progress_interval: float = 5.0) -> CleanResult:
+          err: TextIO | None = None, progress_interval: float = 5.0,
+          dask_timeout: float = 20.0) -> CleanResult:
     err = err or sys.stderr
     outdir = Path(outdir)
     try:
@@ -138,7 +139,7 @@ def clean(paths_in: list[str], outdir: str | Path, *, threshold: float = 0.9, jo
     counter = {"items": 0}
     chunks = _chunks(stream, chunk_size, state["records_done"] + 1, counter)
     if engine == "dask":
-        results = engines.run_dask(chunks, settings, scheduler)
+        results = engines.run_dask(chunks, settings, scheduler, dask_timeout)
     else:
         results = engines.run_local(chunks, settings, jobs or engines.default_jobs())
     previous = _terminate_as_interrupt()

@@ -188,6 +188,43 @@ def _can_start(tests: list | None, c: str) -> bool:
     return False
 
 
+# How the driver performs a reduction (first item of its action tuple).
+_R_CALL, _R_ONE, _R_PASS, _R_WRAP, _R_APPEND, _R_APPEND_OP = range(6)
+
+
+def _reduction(rule, builder, lark_callback) -> tuple:
+    """The action tuple (kind, size, rule name, callback, extra) of one grammar rule.
+
+    The list-building callbacks of the builder (first item, append, chain operator)
+    are done in place by the driver, and callbacks of one child get the child itself,
+    sparing a call and a children list per reduction; everything else calls the
+    builder (or lark's wrapper) with the children, as lark would."""
+    size, origin = len(rule.expansion), rule.origin.name
+    through = _passthrough(rule)
+    if through is not None:  # `?rule` with one kept child: the child is the value
+        return (_R_PASS, size, origin, None, through)
+    method, keep = _direct(rule, builder)
+    if method is None:
+        return (_R_CALL, size, origin, lark_callback, None)
+    func = getattr(method, "__func__", None)
+    kept = size if keep is None else len(keep)
+    if func in (_Build.list_first, _Build.signs_first) and kept == 1 and size == 1:
+        return (_R_WRAP, size, origin, None, None)
+    if func is _Build.chain_first and size == 1:
+        return (_R_WRAP, size, origin, None, None)
+    if func in (_Build.list_more, _Build.signs_more, _Build.chain_juxt) and kept == 2 \
+            and (size == 2 or (size == 3 and keep == (0, 2))):
+        return (_R_APPEND, size, origin, None, None)
+    if func is _Build.chain_op and size == 3 and keep is None:
+        return (_R_APPEND_OP, size, origin, None, None)
+    if size == 1 and keep is None:
+        one = {_Build.expr: _climb, _Build.body: _climb, _Build.integer: builder.integer_tok,
+               _Build.name: builder.name_tok}.get(func)
+        if one is not None:
+            return (_R_ONE, size, origin, one, None)
+    return (_R_CALL, size, origin, method, keep)
+
+
 class _TableDriver:
     """A small LALR(1) driver over lark's own parse tables, lexer terminals and rule
     callbacks for this grammar. Same tables and tree as ``lark.Lark.parse``, without
@@ -219,9 +256,7 @@ class _TableDriver:
                 if action is Shift:
                     (acts if terminal or sym == "$END" else gotos)[sym] = arg
                 else:
-                    method, keep = _direct(arg, larkp.options.transformer)
-                    acts[sym] = (len(arg.expansion), arg.origin.name, method or callbacks[arg],
-                                 _passthrough(arg), keep)
+                    acts[sym] = _reduction(arg, larkp.options.transformer, callbacks[arg])
         self.start = table.start_states["start"]
         self.end = table.end_states["start"]
         lexer = larkp.parser.lexer
@@ -261,9 +296,12 @@ class _TableDriver:
         cands = [t for t, first in zip(self.terms, self.firsts) if _can_start(first, c)]
         if not cands:
             entry: Any = None
-        elif len(cands) == 1 and cands[0][2] == 1 and cands[0][0] not in self.ignore \
-                and cands[0][0] not in self.keywords and re.fullmatch(cands[0][1], c, self.flags):
-            entry = cands[0][0]
+        elif len(cands) == 1 and cands[0][0] in self.ignore and cands[0][1] == r"\s+" and c.isspace():
+            entry = False  # white space: skipped one character at a time, as `\s+` would skip the run
+        elif len(cands) == 1 and cands[0][0] not in self.ignore:
+            entry = (re.compile(cands[0][1], self.flags), cands[0][0])  # one terminal: no group needed
+            if cands[0][2] == 1 and cands[0][0] not in self.keywords and re.fullmatch(cands[0][1], c, self.flags):
+                entry = cands[0][0]
         else:
             entry = re.compile("|".join(f"(?P<{name}>{rx})" for name, rx, _ in cands), self.flags)
         self.dispatch[c] = entry
@@ -282,9 +320,27 @@ class _TableDriver:
             entry = dispatch.get(c, _tok_missing)
             if entry is _tok_missing:
                 entry = self._bucket(c)
-            if entry.__class__ is str:
+            cls = entry.__class__
+            if cls is str:
                 append(tok(entry, c, pos, pos + 1))
                 pos += 1
+                continue
+            if entry is False:
+                pos += 1
+                continue
+            if cls is tuple:
+                m = entry[0].match(text, pos)
+                if m is None:
+                    bad = pos
+                    break
+                end = m.end()
+                typ = entry[1]
+                value = text[pos:end]
+                kw = keywords.get(typ)
+                if kw is not None:
+                    typ = kw.get(value, typ)
+                append(tok(typ, value, pos, end))
+                pos = end
                 continue
             m = entry.match(text, pos) if entry is not None else None
             if m is None:
@@ -309,7 +365,7 @@ class _TableDriver:
         stack = [state]
         push = stack.append
         values: list = []
-        vpush = values.append
+        vpush, vpop = values.append, values.pop
         toks, bad = self.tokens(text)
         row = actions[state]
         accept = self.end
@@ -327,16 +383,32 @@ class _TableDriver:
                     if typ == "$BAD":  # an unreadable character: say what this state accepts
                         raise _SyntaxError(bad, text[bad:bad + 1], expected, char=True)
                     raise _SyntaxError(tok.start_pos, tok.value, expected, end=typ == "$END")
-                size, origin, callback, through, keep = act
-                if through is not None:  # `?rule` with one kept child: the child is the value
+                kind, size, origin, callback, keep = act
+                if kind == _R_ONE:  # one child in, one value out
+                    values[-1] = callback(values[-1])
+                    del stack[-1]
+                elif kind == _R_APPEND_OP:  # chain OP unit: append both to the chain list
+                    unit = vpop()
+                    op = vpop()
+                    chain = values[-1]
+                    chain.append(op)
+                    chain.append(unit)
+                    del stack[-3:]
+                elif kind == _R_WRAP:  # the first item of a list
+                    values[-1] = [values[-1]]
+                    del stack[-1]
+                elif kind == _R_APPEND:  # list item (or list SEP item): append in place
+                    item = vpop()
+                    if size == 3:
+                        vpop()
+                    values[-1].append(item)
+                    del stack[-size:]
+                elif kind == _R_PASS:  # `?rule` with one kept child: the child is the value
                     if size != 1:
-                        value = values[through - size]
+                        value = values[keep - size]
                         del values[-size:]
                         vpush(value)
                     del stack[-size:]
-                elif size == 1:
-                    values[-1] = callback([values[-1]] if keep is None else [])
-                    stack.pop()
                 elif size:
                     children = values[-size:]
                     del values[-size:]
@@ -624,8 +696,26 @@ def _climb(ch: list) -> Any:
     first reduces the operators on the stack that bind at least as tightly (for a
     right-associative one, strictly more tightly); a sign covers the operators of
     its SIGN_LEVEL and above."""
-    if len(ch) == 1:
+    n = len(ch)
+    if n == 1:
         return ch[0]
+    if n == 3:  # `a op b`, the commonest chain: no stacks needed
+        left, op, right = ch
+        typ = getattr(op, "type", None)
+        if typ is not None and typ != "DOTS" and getattr(left, "type", None) is None \
+                and getattr(right, "type", None) is None:
+            ls, rs = left.span, right.span
+            if ls == A.NO_SPAN:
+                span = rs
+            elif rs == A.NO_SPAN:
+                span = ls
+            else:
+                span = (ls[0] if ls[0] < rs[0] else rs[0], ls[1] if ls[1] > rs[1] else rs[1])
+            node = _power(left, right, span) if typ == "POW" else _binop(_OPS[typ], left, right, False, span)
+            if not isinstance(left, A.Node) or id(left) in _DIRTY \
+                    or not isinstance(right, A.Node) or id(right) in _DIRTY:
+                _DIRTY.add(id(node))
+            return node
     out: list = []  # operands
     ops: list = []  # pending operators: (level, name) or (level, sign token)
     dirty = _DIRTY
@@ -836,17 +926,23 @@ class _Build(_LarkTransformer):
 
     # --- atoms
     def integer(self, ch):
-        return _integer(int(ch[0].value), (ch[0].start_pos, ch[0].end_pos))
+        return self.integer_tok(ch[0])
+
+    def integer_tok(self, tok):
+        return _integer(int(tok.value), (tok.start_pos, tok.end_pos))
 
     def decimal(self, ch):
         return A.Decimal(_t(ch[0]), Fraction(_t(ch[0])), span=_sp(ch[0]))
 
     def name(self, ch):
-        name = ch[0].value
+        return self.name_tok(ch[0])
+
+    def name_tok(self, tok):
+        name = tok.value
         self.standalone.add(name)
         if name in _CONSTANTS:  # pi, e, i...: constant or variable depends on context
-            return _Name(name, _sp(ch[0]))
-        return _symbol(name, (ch[0].start_pos, ch[0].end_pos))
+            return _Name(name, (tok.start_pos, tok.end_pos))
+        return _symbol(name, (tok.start_pos, tok.end_pos))
 
     def apply(self, ch):
         node = _Apply(_t(ch[0]), tuple(ch[1]), _join(ch[0], *ch[1]))

@@ -236,6 +236,11 @@ def assemble(text: str, tokens: list[Token], labels: list[str], marg: list[float
         if best is None:
             continue
         value = _strip_field(field, clean_text(raw(best)))
+        if field == "edition" and value.isdigit():
+            # "2nd": the tokenizer splits the ordinal suffix off
+            tail = text[tokens[best.last].end:tokens[best.last].end + 2]
+            if tail in ("st", "nd", "rd", "th"):
+                value += tail
         if field == "title":
             value = value.rstrip(".")
         if not value:

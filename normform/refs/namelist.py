@@ -26,9 +26,22 @@ _INITIALS = re.compile(r"(?:[^\W\d_][a-z]?\.?(?:-[^\W\d_]\.?)?)+\Z")
 _INITIAL_ONLY = re.compile(r"(?:[^\W\d_][a-z]?\.(?:\s?-?[^\W\d_][a-z]?\.)*|[A-Z]{1,3}(?:-[A-Z])?)\Z")
 
 
+_GLUED_INITIAL = re.compile(r"(?<![^\s.-])([A-Z]\.)(?=[A-Z][a-z])")
+_CORPORATE = re.compile(
+    r"(?i)^the\s|\b(?:group|society|committee|project|authors|community|team|consortium|collective|"
+    r"editors|institute|association|council|foundation|office|bureau|collaboration|working)\b")
+
+
 def _is_initials(piece: str) -> bool:
     words = piece.split()
     return bool(words) and all(_INITIAL_ONLY.match(w) for w in words)
+
+
+def _given_word(w: str) -> bool:
+    """A known given name ("Ada", "Jean-Pierre") or an initial."""
+    if w in lx.SUFFIXES:
+        return False
+    return bool(_INITIAL_ONLY.match(w)) or all(p.lower() in lx.GIVEN_NAMES for p in w.split("-") if p)
 
 
 def _core_words(piece: str) -> int:
@@ -37,7 +50,7 @@ def _core_words(piece: str) -> int:
 
 def _ends_initial(piece: str) -> bool:
     words = piece.split()
-    return bool(words) and bool(_INITIAL_ONLY.match(words[-1]))
+    return bool(words) and bool(_INITIAL_ONLY.match(words[-1])) and piece not in lx.SUFFIXES
 
 
 def _clean(text: str) -> str:
@@ -49,7 +62,7 @@ def _clean(text: str) -> str:
 @lru_cache(maxsize=100_000)
 def split_names(text: str) -> tuple[tuple[Name, ...], bool]:
     """Names in ``text`` and whether the list ended with *et al.*"""
-    text = " ".join(text.split())
+    text = _GLUED_INITIAL.sub(r"\1 ", " ".join(text.split()))   # "V.Salikhov" -> "V. Salikhov"
     etal = False
     m = _ETAL.search(text)
     if m:
@@ -58,6 +71,9 @@ def split_names(text: str) -> tuple[tuple[Name, ...], bool]:
     text = _ROLE.sub(" ", text).strip(" ,;:")
     if not text:
         return (), etal
+    if _CORPORATE.search(text) and not _SEP.search(text):
+        # "QSEM Working Group", "The Stacks Project Authors": one literal name
+        return (Name(literal=text),), etal
     groups = [g.strip(" ,") for g in _SEP.split(text) if g and g.strip(" ,")]
     chunks: list[str] = []
     for g in groups:
@@ -69,7 +85,7 @@ def split_names(text: str) -> tuple[tuple[Name, ...], bool]:
         and _core_words(chunks[0]) <= 3 and not _ends_initial(chunks[0])
     if not inverted and len(chunks) >= 2 and "," in groups[0] and not _is_initials(chunks[0]) \
             and _core_words(chunks[0]) <= 3 and chunks[0].split()[-1].lower() not in lx.GIVEN_NAMES \
-            and all(w.lower() in lx.GIVEN_NAMES or _INITIAL_ONLY.match(w) for w in chunks[1].split()):
+            and all(_given_word(w) for w in chunks[1].split()):
         # "Quillfeather, Ada": the second piece starts with a known given name
         inverted = True
     if not inverted and len(chunks) >= 2 and len(groups) >= 2 and all(g.count(",") == 1 for g in groups):
@@ -78,7 +94,7 @@ def split_names(text: str) -> tuple[tuple[Name, ...], bool]:
     i = 0
     while i < len(chunks):
         c = chunks[i]
-        if inverted and i + 1 < len(chunks) and (_ends_initial(chunks[i + 1]) or
+        if inverted and i + 1 < len(chunks) and chunks[i + 1] not in lx.SUFFIXES and (_ends_initial(chunks[i + 1]) or
                                                  _looks_given(chunks[i + 1], c)):
             given = chunks[i + 1]
             suffix = None
