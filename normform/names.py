@@ -101,6 +101,12 @@ def format_name(name: Name, ascii: bool = False) -> str:
         return f"{family}, {_words(name.suffix, ascii, protect=False)}, {given_tex}".rstrip()
     if given_tex:
         return f"{family}, {given_tex}"
+    words = (name.family or "").split()
+    if (len(words) == 1 and not name.particle and words[0][:1].isalpha()
+            and words[0].lower() not in ("and", "others")):
+        # A lone word is the family name under BibTeX's rules even in lower case;
+        # braces would make it read back as a literal (corporate) name.
+        return to_latex(words[0], ascii)
     # A bare multi-word family needs the comma form, or its first word becomes a given name.
     return f"{family}," if len((name.family or "").split()) > 1 else family
 

@@ -2,7 +2,6 @@
 
 from __future__ import annotations
 
-import sqlite3
 
 from normform.batch import clusters, keys
 from normform.batch.store import _connect

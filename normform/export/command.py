@@ -14,7 +14,7 @@ import sys
 
 
 def configure(parser: argparse.ArgumentParser) -> None:
-    parser.add_argument("input", help="a .bib or .json (CSL-JSON) file, or - for standard input")
+    parser.add_argument("input", help="a .bib or .json / .jsonl (CSL-JSON) file, or - for standard input")
     parser.add_argument("--to", required=True, choices=("bibtex", "csl-json", "text"), help="output format")
     parser.add_argument("--style", help="CSL style name for --to text (default: the house style)")
     parser.add_argument("-o", "--output", help="output file (default: standard output)")
@@ -52,7 +52,7 @@ def run(args: argparse.Namespace) -> int:
             return 2
     fmt = args.source_format
     if fmt is None:
-        if path.lower().endswith(".json"):
+        if path.lower().endswith((".json", ".jsonl")):
             fmt = "csl-json"
         elif path.lower().endswith(".bib") or path == "<stdin>":
             fmt = "csl-json" if path == "<stdin>" and text.lstrip()[:1] in ("[", "{") else "bibtex"

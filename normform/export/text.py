@@ -91,8 +91,8 @@ class HouseStyle(Exporter):
                 venue += f" {ref.volume}" + (f":{ref.issue}" if ref.issue else "")
             elif ref.issue:
                 venue += f" no. {ref.issue}"
-            if year:
-                venue += f" ({year})"
+            if year:  # "(1999)" after a venue; a bare year when the venue is unknown
+                venue = f"{venue} ({year})" if venue.strip() else year
             if venue.strip():
                 out.append(venue.strip())
             if pages:
@@ -148,7 +148,9 @@ class HouseStyle(Exporter):
         body = ", ".join(self.parts(ref))
         text = body.rstrip(".") + "." if body else ""
         idents = self.identifiers(ref)
-        if ref.note:
+        # a status such as "in preparation" may sit in both the date and the note: say it once
+        if ref.note and not (ref.date and ref.date.year is None and ref.date.literal
+                             and ref.date.literal.strip(". ").lower() == ref.note.strip(". ").lower()):
             text += f" {ref.note.rstrip('.')}."
         if idents:
             text += " " + "; ".join(idents)

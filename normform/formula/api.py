@@ -11,11 +11,15 @@ from normform.formula.errors import EvaluationError, FormulaError
 KINDS = ("closed-form", "recurrence", "ogf", "egf", "asymptotic", "identity", "expression", "relation")
 
 
+_parse_statement = None  # normform.formula.parser.parse_statement, imported on first use
+
+
 def parse_formula(text: str) -> "Formula":
     """Parse one plain-text formula; raise :class:`FormulaError` with its position."""
-    from normform.formula.parser import parse_statement
-
-    return Formula(text, parse_statement(text))
+    global _parse_statement
+    if _parse_statement is None:
+        from normform.formula.parser import parse_statement as _parse_statement
+    return Formula(text, _parse_statement(text))
 
 
 class Formula:
@@ -34,7 +38,7 @@ class Formula:
         self.text = text
         self.root = root
         body = root.body
-        if isinstance(body, A.Relation):
+        if body.__class__ is A.Relation:  # (Relation has no subclasses)
             self.lhs: A.Node | None = body.operands[0]
             self.rhs: A.Node = body.operands[-1]
         else:

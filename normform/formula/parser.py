@@ -13,6 +13,7 @@ from __future__ import annotations
 import re
 from dataclasses import dataclass
 from fractions import Fraction
+from operator import itemgetter
 from typing import Any
 
 from normform.formula import ast as A
@@ -56,19 +57,25 @@ def _get_parser():
     return _parser
 
 
-class _Tok:
-    """A lexer token: the attributes lark's Token offers that the callbacks use."""
+class _Tok(tuple):
+    """A lexer token ``(type, value, start_pos, end_pos)`` with the attributes of lark's
+    Token that the callbacks use. A tuple subclass, so that making one (once per token)
+    runs no Python ``__init__``."""
 
-    __slots__ = ("type", "value", "start_pos", "end_pos")
-
-    def __init__(self, type_: str, value: str, start: int, end: int):
-        self.type, self.value, self.start_pos, self.end_pos = type_, value, start, end
+    __slots__ = ()
+    type = property(itemgetter(0))
+    value = property(itemgetter(1))
+    start_pos = property(itemgetter(2))
+    end_pos = property(itemgetter(3))
 
     def __str__(self) -> str:
-        return self.value
+        return self[1]
 
     def __repr__(self) -> str:
-        return f"Token({self.type!r}, {self.value!r})"
+        return f"Token({self[0]!r}, {self[1]!r})"
+
+
+_new_tok = tuple.__new__
 
 
 class _SyntaxError(Exception):
@@ -217,9 +224,12 @@ def _reduction(rule, builder, lark_callback) -> tuple:
         return (_R_APPEND, size, origin, None, None)
     if func is _Build.chain_op and size == 3 and keep is None:
         return (_R_APPEND_OP, size, origin, None, None)
+    if keep is not None:  # which children the callback gets: a slice, or an itemgetter (a tuple)
+        keep = slice(keep[0], keep[0] + 1) if len(keep) == 1 else (slice(0, 0) if not keep else itemgetter(*keep))
     if size == 1 and keep is None:
         one = {_Build.expr: _climb, _Build.body: _climb, _Build.integer: builder.integer_tok,
-               _Build.name: builder.name_tok}.get(func)
+               _Build.name: builder.name_tok, _Build.rel: builder.rel_one, _Build.seg: builder.seg_one,
+               _Build.start: builder.start_one}.get(func)
         if one is not None:
             return (_R_ONE, size, origin, one, None)
     return (_R_CALL, size, origin, method, keep)
@@ -287,6 +297,38 @@ class _TableDriver:
         for c in "".join(chr(i) for i in range(32, 127)) + "\t\n":
             self._bucket(c)
         self.terminal_names = set(lexer.terminals_by_name)
+        self.runs: dict[tuple[int, int, str], tuple[tuple, int, int | None]] = {}
+
+    def _run(self, key: tuple) -> tuple[tuple, int, int | None]:
+        """The run of one-child reductions the table prescribes with ``key[1]`` on top of
+        ``key[0]`` and lookahead ``key[2]``: (the value functions in order, the state
+        after them, the state the lookahead is then shifted to, or None). Such reductions pop one state and expose the same ``key[0]``, so
+        the run depends only on the key; it is read off the table once, on first use.
+        The callbacks still run on every parse: only the table walk is remembered."""
+        below, state, typ = key
+        funcs: list = []
+        while True:
+            act = self.actions[state].get(typ)
+            if act is None or act.__class__ is int or act[1] != 1:
+                break
+            kind, _, origin, callback, keep = act
+            if kind == _R_ONE:
+                funcs.append(callback)
+            elif kind == _R_WRAP:
+                funcs.append(None)  # None: wrap the value in a list (done in line by the driver)
+            elif kind == _R_PASS:
+                pass  # the child is the value
+            elif keep is None:
+                funcs.append(lambda v, f=callback: f([v]))
+            else:  # the only child is a filtered token
+                funcs.append(lambda v, f=callback: f([]))
+            state = self.gotos[below][origin]
+            if state == self.end and typ == "$END":
+                break
+        after = self.actions[state].get(typ)
+        run = (tuple(funcs), state, after if after.__class__ is int else None)
+        self.runs[key] = run
+        return run
 
     def _bucket(self, c: str) -> Any:
         """What to do at character ``c``: a terminal name (a one-character token that no
@@ -307,58 +349,6 @@ class _TableDriver:
         self.dispatch[c] = entry
         return entry
 
-    def tokens(self, text: str) -> tuple[list[_Tok], int | None]:
-        """All tokens, and the offset of an unreadable character (None if none)."""
-        out: list[_Tok] = []
-        append = out.append
-        ignore, keywords, dispatch = self.ignore, self.keywords, self.dispatch
-        tok = _Tok
-        pos, n = 0, len(text)
-        bad = None
-        while pos < n:
-            c = text[pos]
-            entry = dispatch.get(c, _tok_missing)
-            if entry is _tok_missing:
-                entry = self._bucket(c)
-            cls = entry.__class__
-            if cls is str:
-                append(tok(entry, c, pos, pos + 1))
-                pos += 1
-                continue
-            if entry is False:
-                pos += 1
-                continue
-            if cls is tuple:
-                m = entry[0].match(text, pos)
-                if m is None:
-                    bad = pos
-                    break
-                end = m.end()
-                typ = entry[1]
-                value = text[pos:end]
-                kw = keywords.get(typ)
-                if kw is not None:
-                    typ = kw.get(value, typ)
-                append(tok(typ, value, pos, end))
-                pos = end
-                continue
-            m = entry.match(text, pos) if entry is not None else None
-            if m is None:
-                bad = pos
-                break
-            typ = m.lastgroup
-            end = m.end()
-            if typ not in ignore:
-                value = text[pos:end]
-                kw = keywords.get(typ)
-                if kw is not None:
-                    typ = kw.get(value, typ)
-                append(tok(typ, value, pos, end))
-            pos = end
-        end = n if bad is None else bad
-        append(tok("$BAD" if bad is not None else "$END", "", end, end))
-        return out, bad
-
     def parse(self, text: str):
         actions, gotos = self.actions, self.gotos
         state = self.start
@@ -366,11 +356,65 @@ class _TableDriver:
         push = stack.append
         values: list = []
         vpush, vpop = values.append, values.pop
-        toks, bad = self.tokens(text)
         row = actions[state]
         accept = self.end
-        for tok in toks:
-            typ = tok.type
+        R_APPEND_OP, R_PASS, R_APPEND = _R_APPEND_OP, _R_PASS, _R_APPEND
+        runs, run_of = self.runs, self._run
+        keywords, dispatch = self.keywords, self.dispatch
+        new, Tok = _new_tok, _Tok
+        pos, n = 0, len(text)
+        bad = None
+        while True:
+            # -- the next token (the lexer, done in line: one loop for both)
+            if pos < n:
+                c = text[pos]
+                entry = dispatch.get(c)
+                if entry is None:
+                    entry = self._bucket(c) if c not in dispatch else None
+                cls = entry.__class__
+                if cls is str:  # a one-character token
+                    typ = entry
+                    tok = new(Tok, (typ, c, pos, pos + 1))
+                    pos += 1
+                elif cls is tuple:  # the only terminal that can start here
+                    m = entry[0].match(text, pos)
+                    if m is None:
+                        bad = pos
+                    else:
+                        end = m.end()
+                        typ = entry[1]
+                        value = text[pos:end]
+                        kw = keywords.get(typ)
+                        if kw is not None:
+                            typ = kw.get(value, typ)
+                        tok = new(Tok, (typ, value, pos, end))
+                        pos = end
+                elif entry is False:  # white space
+                    pos += 1
+                    continue
+                else:
+                    m = entry.match(text, pos) if entry is not None else None
+                    if m is None:
+                        bad = pos
+                    else:
+                        typ = m.lastgroup
+                        end = m.end()
+                        value = text[pos:end]
+                        if typ in self.ignore:
+                            pos = end
+                            continue
+                        kw = keywords.get(typ)
+                        if kw is not None:
+                            typ = kw.get(value, typ)
+                        tok = new(Tok, (typ, value, pos, end))
+                        pos = end
+                if bad is not None:  # a character no terminal starts with
+                    typ = "$BAD"
+                    tok = new(Tok, (typ, "", bad, bad))
+            else:
+                typ = "$END"
+                tok = new(Tok, (typ, "", n, n))
+            # -- the LALR actions for it
             while True:
                 act = row.get(typ)
                 if act.__class__ is int:  # shift
@@ -382,39 +426,53 @@ class _TableDriver:
                     expected = self.expected[stack[-1]]
                     if typ == "$BAD":  # an unreadable character: say what this state accepts
                         raise _SyntaxError(bad, text[bad:bad + 1], expected, char=True)
-                    raise _SyntaxError(tok.start_pos, tok.value, expected, end=typ == "$END")
+                    raise _SyntaxError(tok[2], tok[1], expected, end=typ == "$END")
                 kind, size, origin, callback, keep = act
-                if kind == _R_ONE:  # one child in, one value out
-                    values[-1] = callback(values[-1])
-                    del stack[-1]
-                elif kind == _R_APPEND_OP:  # chain OP unit: append both to the chain list
+                if size == 1:  # a run of one-child reductions, all in one step
+                    key = (stack[-2], stack[-1], typ)
+                    run = runs.get(key)
+                    if run is None:
+                        run = run_of(key)
+                    value = values[-1]
+                    for f in run[0]:
+                        value = [value] if f is None else f(value)
+                    values[-1] = value
+                    state = stack[-1] = run[1]
+                    if state == accept and typ == "$END":
+                        return value
+                    target = run[2]
+                    if target is not None:  # the table then shifts the lookahead
+                        push(target)
+                        vpush(tok)
+                        row = actions[target]
+                        break
+                    row = actions[state]
+                    continue
+                if kind == R_APPEND_OP:  # chain OP unit: append both to the chain list
                     unit = vpop()
                     op = vpop()
                     chain = values[-1]
                     chain.append(op)
                     chain.append(unit)
                     del stack[-3:]
-                elif kind == _R_WRAP:  # the first item of a list
-                    values[-1] = [values[-1]]
-                    del stack[-1]
-                elif kind == _R_APPEND:  # list item (or list SEP item): append in place
-                    item = vpop()
-                    if size == 3:
-                        vpop()
-                    values[-1].append(item)
-                    del stack[-size:]
-                elif kind == _R_PASS:  # `?rule` with one kept child: the child is the value
+                elif kind == R_PASS:  # `?rule` with one kept child: the child is the value
                     if size != 1:
                         value = values[keep - size]
                         del values[-size:]
                         vpush(value)
+                    del stack[-size:]
+                elif kind == R_APPEND:  # list item (or list SEP item): append in place
+                    item = vpop()
+                    if size == 3:
+                        vpop()
+                    values[-1].append(item)
                     del stack[-size:]
                 elif size:
                     children = values[-size:]
                     del values[-size:]
                     del stack[-size:]
                     if keep is not None:  # drop punctuation tokens, as lark's child filter does
-                        children = [children[i] for i in keep]
+                        children = children[keep] if keep.__class__ is slice else keep(children)
                     vpush(callback(children))
                 else:
                     vpush(callback([]))
@@ -520,12 +578,18 @@ class _Seg(_Raw):
         self.kind, self.rel, self.tails, self.span = kind, rel, tails, span
 
 
+# what a chain item or a callback child is when it is not a token
+_NODES = (A.Node, _Raw)
+
+
 def _t(tok: Any) -> str:
     """Text of a lark token (plain lark tokens are str; lark-cython tokens are not)."""
     return tok.value
 
 
 def _sp(x: Any) -> A.Span:
+    if isinstance(x, _NODES):  # (a getattr that misses costs a caught AttributeError)
+        return x.span
     span = getattr(x, "span", None)
     if span is not None:
         return span
@@ -701,9 +765,8 @@ def _climb(ch: list) -> Any:
         return ch[0]
     if n == 3:  # `a op b`, the commonest chain: no stacks needed
         left, op, right = ch
-        typ = getattr(op, "type", None)
-        if typ is not None and typ != "DOTS" and getattr(left, "type", None) is None \
-                and getattr(right, "type", None) is None:
+        typ = None if isinstance(op, _NODES) else op.type
+        if typ is not None and typ != "DOTS" and isinstance(left, _NODES) and isinstance(right, _NODES):
             ls, rs = left.span, right.span
             if ls == A.NO_SPAN:
                 span = rs
@@ -716,6 +779,12 @@ def _climb(ch: list) -> Any:
                     or not isinstance(right, A.Node) or id(right) in _DIRTY:
                 _DIRTY.add(id(node))
             return node
+    if n & 1 and n < 2 * MAX_DEPTH and isinstance(ch[0], _NODES):
+        for i in range(1, n, 2):
+            if isinstance(ch[i], _NODES) or ch[i].type == "DOTS" or not isinstance(ch[i + 1], _NODES):
+                break
+        else:  # `a op b op c ...` without signs, dots or implicit products
+            return _climb_plain(ch)
     out: list = []  # operands
     ops: list = []  # pending operators: (level, name) or (level, sign token)
     dirty = _DIRTY
@@ -763,7 +832,7 @@ def _climb(ch: list) -> Any:
                     out[-1] = node
 
     for c in ch:
-        typ = getattr(c, "type", None)
+        typ = None if isinstance(c, _NODES) else c.type  # a node, or a token
         if typ is None or typ == "DOTS":  # an operand
             if not want_operand:  # directly after another operand: an implicit product
                 reduce(PRECEDENCE["JUXT"])
@@ -785,6 +854,49 @@ def _climb(ch: list) -> Any:
             raise _PendingError(f"formula nested deeper than {MAX_DEPTH} levels", _sp(c))
     reduce(-1)
     return out[0]
+
+
+def _climb_plain(ch: list) -> Any:
+    """:func:`_climb` for the commonest chains, operands and binary operators alternating
+    (the same algorithm without signs: fewer checks per operator)."""
+    prec, dirty, nodes = PRECEDENCE, _DIRTY, A.Node
+    out = [ch[0]]
+    ops: list[str] = []
+    levels: list[int] = []
+    n = len(ch)
+    i = 1
+    while True:
+        if i < n:
+            typ = ch[i].type
+            level = prec[typ]
+        else:
+            level = -1  # the end: apply everything
+        while ops:
+            top_level = levels[-1]
+            if top_level < level or (top_level == level and ops[-1] == "POW"):
+                break
+            top = ops.pop()
+            levels.pop()
+            right = out.pop()
+            left = out[-1]
+            ls, rs = left.span, right.span
+            if ls == A.NO_SPAN:
+                span = rs
+            elif rs == A.NO_SPAN:
+                span = ls
+            else:
+                span = (ls[0] if ls[0] < rs[0] else rs[0], ls[1] if ls[1] > rs[1] else rs[1])
+            node = _power(left, right, span) if top == "POW" else _binop(_OPS[top], left, right, False, span)
+            if not isinstance(left, nodes) or id(left) in dirty or not isinstance(right, nodes) \
+                    or id(right) in dirty:
+                dirty.add(id(node))
+            out[-1] = node
+        if i >= n:
+            return out[0]
+        ops.append(typ)
+        levels.append(level)
+        out.append(ch[i + 1])
+        i += 2
 
 
 class _Build(_LarkTransformer):
@@ -819,8 +931,14 @@ class _Build(_LarkTransformer):
             return (ch[0], ch[1])
         return (None, ch[0])
 
+    def start_one(self, segments):  # `start: segments`, called by the driver with the child
+        return (None, segments)
+
     def seg(self, ch):
-        return _Seg("seg", ch[0], (), _sp(ch[0]))
+        return self.seg_one(ch[0])
+
+    def seg_one(self, rel):  # `segment: rel`, called by the driver with the child
+        return _Seg("seg", rel, (), _sp(rel))
 
     def seg_tail(self, ch):
         seg = ch[0]
@@ -859,6 +977,16 @@ class _Build(_LarkTransformer):
         return A.Parity(ch[0], False, span=_join(*ch))
 
     def rel(self, ch):
+        if len(ch) == 1:
+            return self.rel_one(ch[0])
+        return self._rel(ch)
+
+    def rel_one(self, chain):  # `rel: relchain`, called by the driver with the child itself
+        if len(chain) == 1:  # a plain expression, no relation
+            return _Rel((), (chain[0],), None, None, _sp(chain[0]))
+        return self._rel([chain])
+
+    def _rel(self, ch):
         chain = ch[0]
         operands, ops = tuple(chain[0::2]), tuple(chain[1::2])
         modulus = mod_span = None
@@ -929,7 +1057,11 @@ class _Build(_LarkTransformer):
         return self.integer_tok(ch[0])
 
     def integer_tok(self, tok):
-        return _integer(int(tok.value), (tok.start_pos, tok.end_pos))
+        o = _new(A.Integer)  # as _integer(), inlined: one of the commonest reductions
+        d = o.__dict__
+        d["value"] = int(tok.value)
+        d["span"] = (tok.start_pos, tok.end_pos)
+        return o
 
     def decimal(self, ch):
         return A.Decimal(_t(ch[0]), Fraction(_t(ch[0])), span=_sp(ch[0]))
@@ -942,7 +1074,11 @@ class _Build(_LarkTransformer):
         self.standalone.add(name)
         if name in _CONSTANTS:  # pi, e, i...: constant or variable depends on context
             return _Name(name, (tok.start_pos, tok.end_pos))
-        return _symbol(name, (tok.start_pos, tok.end_pos))
+        o = _new(A.Symbol)  # as _symbol(), inlined
+        d = o.__dict__
+        d["name"] = name
+        d["span"] = (tok.start_pos, tok.end_pos)
+        return o
 
     def apply(self, ch):
         node = _Apply(_t(ch[0]), tuple(ch[1]), _join(ch[0], *ch[1]))
@@ -1351,6 +1487,12 @@ class _Resolver:
         label = None
         if self.label_token is not None:
             label = "egf" if _t(self.label_token).lstrip()[:1] in "Ee" else "ogf"
+        if len(self.segs) == 1 and self.segs[0].kind == "seg" and not self.segs[0].tails:
+            # the common case, one clause and nothing after it (same result as below)
+            first = self.segs[0]
+            body = self.rel(first.rel, main=True)
+            span = (0, len(self.text.rstrip()) if self.note is None else _join(first)[1])
+            return _statement(body, label, (), (), self.note, span)
         segs = []
         for seg in self.segs:  # `X with a(0)=1`: the initial value becomes its own clause
             if not seg.tails:

@@ -139,10 +139,17 @@ def _items(text: str, path: str | None) -> list[tuple[int, object]]:
     try:
         stripped = len(text) - len(text.lstrip())
         if not text[stripped:stripped + 1] == "[":
-            value, _ = decoder.raw_decode(text, stripped)
-            if text[_:].strip():
-                raise json.JSONDecodeError("extra data after the value", text, _)
-            return [(stripped, value)]
+            # one object, or JSON Lines (one object per line, as `normform refs` writes)
+            out, pos = [], stripped
+            while pos < len(text):
+                if out and text[pos:pos + 1] != "{":
+                    raise json.JSONDecodeError("extra data after the value", text, pos)
+                value, end = decoder.raw_decode(text, pos)
+                out.append((pos, value))
+                pos = end
+                while pos < len(text) and text[pos] in " \t\r\n":
+                    pos += 1
+            return out
         out, pos = [], stripped + 1
         while True:
             while pos < len(text) and text[pos] in " \t\r\n":
@@ -162,7 +169,7 @@ def _items(text: str, path: str | None) -> list[tuple[int, object]]:
             pos = end
     except json.JSONDecodeError as exc:
         raise CslJsonError(f"invalid JSON: {exc.msg}", line=exc.lineno, column=exc.colno,
-                           source=text, path=path, expected=("a JSON array of CSL items",)) from None
+                           source=text, path=path, expected=("a JSON array of CSL items, or one item per line",)) from None
     except IndexError:
         line, col = _line_col(text, len(text))
         raise CslJsonError("invalid JSON: the array is not closed", line=line, column=col,
@@ -188,7 +195,7 @@ def read_csljson_all(text: str, path: str | None = None) -> tuple[list[Reference
 
 
 def read_csljson(text: str, path: str | None = None) -> list[Reference]:
-    """All items of a CSL-JSON text (an array, or one object); raises the first error."""
+    """All items of a CSL-JSON text (an array, one object, or JSON Lines); raises the first error."""
     records, errors = read_csljson_all(text, path)
     if errors:
         raise errors[0]

@@ -46,6 +46,9 @@ def _latex():
     return LatexNodes2Text(math_mode="verbatim", strict_latex_spaces=False)
 
 
+_COMPANY_TAIL = re.compile(r"(?:,?\s?(?:Inc\.|Ltd\.|Co\.|GmbH|S\.\s?A\.|and Co\.|& Co\.|& Cie|Corp\.|LLC|KG))+")
+_TITLE_VOL = re.compile(r",\s*(?:[Vv]ol\.|[Vv]olume)\s*(?P<v>\d{1,4})\Z")
+_CONTAINER_VOL = re.compile(r"(?<=[a-zA-Z.'])\s+(?P<v>\d{1,4})\Z")
 _NEEDS_CLEAN = re.compile(r"[\\{}~$*_\t\n]|\s\s|,,|\.\.")
 
 
@@ -241,6 +244,16 @@ def assemble(text: str, tokens: list[Token], labels: list[str], marg: list[float
             tail = text[tokens[best.last].end:tokens[best.last].end + 2]
             if tail in ("st", "nd", "rd", "th"):
                 value += tail
+        end = tokens[best.last].end
+        if field in _KEEP_DOT_FIELDS and text[end:end + 1] == "." and not value.endswith("."):
+            last = value.rsplit(" ", 1)[-1]
+            if len(last) <= 5 and last[:1].isupper() or (last.lower() + ".") in lx.JOURNAL_WORDS:
+                value += "."   # the abbreviation's period was labeled as punctuation
+        if field == "publisher":
+            # company suffixes the labeler tends to leave out: ", Inc.", "and Co."
+            m = _COMPANY_TAIL.match(text, tokens[best.last].end)
+            if m:
+                value = value + m.group().rstrip(",; ")
         if field == "title":
             value = value.rstrip(".")
         if not value:
@@ -257,6 +270,18 @@ def assemble(text: str, tokens: list[Token], labels: list[str], marg: list[float
                 notes.extend(extra) if field == "title" else None
                 conf *= 0.8
         note_info(field, best, conf)
+
+    # A volume glued to the end of a title ("Number fields, Vol. 8") or of a
+    # journal name ("Journal de l'IMA 3") belongs in volume.
+    if "volume" not in runs:
+        for field, pattern in (("title", _TITLE_VOL), ("container_title", _CONTAINER_VOL)):
+            val = values.get(field)
+            m = pattern.search(val) if isinstance(val, str) else None
+            if m and m.start() > 3:
+                values[field] = val[: m.start()].rstrip(" ,.")
+                values["volume"] = m.group("v")
+                infos.append(FieldInfo("volume", 0.7, None))
+                break
 
     # --- volume / issue ----------------------------------------------------------
     vrun, _ = _pick(runs, "volume", longest=False)
