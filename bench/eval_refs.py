@@ -21,6 +21,7 @@ from __future__ import annotations
 import argparse
 import json
 import os
+import re
 import sys
 import time
 import unicodedata
@@ -108,6 +109,9 @@ def same(field: str, g, p) -> bool:
         return all(a == b or (b and a.endswith(b)) for a, b in zip(g, p))
     if field == "page":
         return fold(str(g).replace("–", "-")) == fold(str(p))
+    if field == "arxiv":
+        # a version suffix names the same paper: 1707.00328v1 = 1707.00328
+        return re.sub(r"v\d+$", "", fold(g)) == re.sub(r"v\d+$", "", fold(p))
     if field == "mr":
         # MR numbers are numbers: "0220785" and "220785" are the same review
         return fold(g).lstrip("mr0") == fold(p).lstrip("mr0")

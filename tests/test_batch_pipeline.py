@@ -110,7 +110,9 @@ def test_bad_entry_file_is_reported_with_position(tmp_path):
     (d / "Q2.toml").write_text('id = "Q2"\nreferences = ["Foxwell, Fine, 1991"]\n', encoding="utf-8")
     result = clean([str(d)], tmp_path / "out", toolkit=FAKE, jobs=1, quiet=True)
     assert result.records == 1
-    assert any("Q1.toml:" in p and "TOML" in p for p in result.problems)
+    assert any("Q1.toml:3:" in p and "TOML" in p for p in result.problems), result.problems
+    assert result.unreadable == [str(d / "Q1.toml")]
+    assert command.main([str(d), "-o", str(tmp_path / "o2"), "--quiet"], toolkit=FAKE) == 1
 
 
 def test_command_prints_the_count_check(tmp_path, capsys):

@@ -90,3 +90,23 @@ def test_convert_reads_the_json_lines_that_refs_writes(tmp_path, capsys):
     with pytest.raises(Exception) as info:
         read_csljson(lines + "not json\n")
     assert (info.value.line, info.value.column) == (3, 1)
+
+
+@pytest.mark.parametrize("opener, closer", [("{", "}"), ("(", ")")])
+def test_unclosed_entry_is_reported_where_it_opens(opener, closer):
+    # Found with `normform convert`: an entry whose own brace is never closed was
+    # reported at line+1, column 1 (the start of the next entry), with that entry's text.
+    from normform.readers.bibtex import read_bibtex
+
+    text = ("@misc{ok1, title={First}}\n"
+            f"@article{opener}broken, author = {{X, Y}}, title = {{oops}}\n"
+            "@misc{ok2, title={After}}\n")
+    result = read_bibtex(text, "t.bib")
+    assert [r.title for r in result.records] == ["First", "After"]   # the others still convert
+    (error,) = result.errors
+    assert (error.line, error.column) == (2, 9)
+    assert error.expected == (f"'{closer}'",)
+    assert "@article" in error.excerpt()
+    # an unclosed *value* still points at its own opening brace
+    (value_error,) = read_bibtex("@article{a, title = {oops,\n  year = 1999\n\n@misc{b, title={B}}\n").errors
+    assert (value_error.line, value_error.column) == (1, 21)

@@ -57,3 +57,24 @@ def test_tex_accents_become_unicode():
     ref = _run(text, [("P. Erd\\H{o}s", "authors"), ("Sur les partitions", "title"),
                       ("C. R. Acad. Sci. Paris", "container_title"), ("3", "volume"), ("1939", "date"), ("1-9", "pages")])
     assert ref.authors[0].family == "Erdős"
+
+
+def test_unlabeled_name_before_place_is_the_publisher():
+    text = "A. Quill, Counting trees. Fenwickhaus, Utrecht, 1999."
+    ref = _run(text, [("A. Quill", "authors"), ("Counting trees", "title"), ("Utrecht", "place"), ("1999", "date")])
+    assert ref.publisher == "Fenwickhaus" and ref.place == "Utrecht"
+
+
+def test_container_of_a_book_is_its_series():
+    text = "A. Quill, Counting trees, Quillfeather Studies, Fenwick Press, 1999."
+    ref = _run(text, [("A. Quill", "authors"), ("Counting trees", "title"), ("Quillfeather Studies", "container_title"),
+                      ("Fenwick Press", "publisher"), ("1999", "date")])
+    assert ref.series == "Quillfeather Studies" and ref.container_title is None
+    assert ref.kind is Kind.BOOK
+
+
+def test_no_title_two_containers_first_is_title():
+    text = "A. Quill, Counting trees on GL(3) I, Quill. Math. 3, 1-9, 1999."
+    ref = _run(text, [("A. Quill", "authors"), ("Counting trees on GL", "container_title"), ("3) I", "O"),
+                      ("Quill. Math.", "container_title"), ("3, 1-9", "O"), ("1999", "date")])
+    assert ref.title == "Counting trees on GL(3) I" and ref.container_title == "Quill. Math."

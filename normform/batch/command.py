@@ -70,6 +70,10 @@ def run(args: argparse.Namespace, *, toolkit: str | None = None) -> int:
     if not result.ok:
         print("normform clean: records out do not match references read", file=sys.stderr)
         return 1
+    if result.unreadable:
+        print(f"normform clean: {len(result.unreadable)} entry file(s) could not be read (see above); "
+              "fix them and run again", file=sys.stderr)
+        return 1
     return 0
 
 

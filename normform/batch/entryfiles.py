@@ -71,7 +71,11 @@ def load(path: Path) -> list[tuple[dict, int | None, dict]]:
         try:
             entry = parse_entry(str(path), source)
         except syntax_error as exc:
-            raise EntryFileError(exc.message, line=exc.line, column=exc.column, source=source,
+            line, column = exc.line, exc.column
+            if "end of document" in exc.message:   # tomllib names no position then: point at the end
+                line = source.count("\n") + 1
+                column = len(source.rsplit("\n", 1)[-1]) + 1
+            raise EntryFileError(exc.message, line=line, column=column, source=source,
                                  path=str(path), expected=exc.expected) from None
         where = entry.where
         positions = {}

@@ -46,6 +46,7 @@ class CleanResult:
     resumed: bool
     problems: list[str]
     entry_files: int = 0
+    unreadable: list[str] = dataclasses.field(default_factory=list)   # entry files nothing could be read from
 
     @property
     def ok(self) -> bool:
@@ -227,6 +228,7 @@ def _finish(store: Store, paths: list[Path], read: inputs.ReadStats, refs: int, 
     summary["entry_files"] = read.entry_files
     summary["problems"] = read.problems
     summary["problem_count"] = read.problem_count
+    summary["unreadable_files"] = read.unreadable
     summary["invalid_utf8"] = [{"file": f, "line": ln, "byte_offset": off} for f, ln, off in read.invalid_utf8]
     report_tmp = work / "report.part"
     report.write(report_tmp, summary, rows=store.part("rows"), formulas=store.part("formulas"),
@@ -265,7 +267,8 @@ def _complete(store: Store, err: TextIO, quiet: bool, resumed: bool) -> CleanRes
                        references_read=summary["references_read"], records=written,
                        needs_review=summary["needs_review"], clusters=summary["clusters"],
                        seconds=summary["run"]["seconds"], resumed=resumed,
-                       problems=list(summary["problems"]), entry_files=summary["entry_files"])
+                       problems=list(summary["problems"]), entry_files=summary["entry_files"],
+                       unreadable=list(summary.get("unreadable_files", [])))
 
 
 from normform.batch.progress import Progress  # noqa: E402  (kept light: no tqdm import until used)

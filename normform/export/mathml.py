@@ -10,11 +10,42 @@ The output is built as strings: every compound visit returns one element.
 
 from __future__ import annotations
 
-from xml.sax.saxutils import escape
+from typing import Any
 
-from normform.export.ascii import ADD, ATOM, MOD, MUL, POW
-from normform.export.latex import OPERATORS, SUBSCRIPTED, level, starts_with_number  # noqa: F401
+from xml.sax.saxutils import escape as _sax_escape
+
+from normform.export.ascii import ADD, ATOM, MOD, MUL, NEG, POST, POW, REL
+from normform.export.latex import FRAC, OPERATORS, SUBSCRIPTED, starts_with_number  # noqa: F401
+from normform.export.latex import level as _latex_level
 from normform.formula import ast as A
+
+
+def escape(text: str) -> str:
+    """XML character escaping (``&``, ``<``, ``>``); most names and numbers need none."""
+    if "&" in text or "<" in text or ">" in text:
+        return _sax_escape(text)
+    return text
+
+
+# binding levels (as normform.export.latex.level gives them) of the node classes whose
+# level does not depend on the node: one dict lookup instead of a chain of isinstance
+_CLASS_LEVEL = {A.Symbol: ATOM, A.Constant: ATOM, A.Call: ATOM, A.SeqRef: ATOM, A.BigOp: ATOM,
+                A.Decimal: ATOM, A.Relation: REL, A.Power: POW, A.Factorial: POST, A.UnaryOp: NEG,
+                A.Piecewise: ATOM}
+_BINOP_LEVEL = {"/": FRAC, "mod": MOD, "+": ADD, "-": ADD}
+
+
+def level(node: A.Node) -> int:
+    """Same value as :func:`normform.export.latex.level`, quicker for the common nodes."""
+    cls = node.__class__
+    lv = _CLASS_LEVEL.get(cls)
+    if lv is not None:
+        return lv
+    if cls is A.BinOp:
+        return _BINOP_LEVEL.get(node.op, MUL)
+    if cls is A.Integer:
+        return NEG if node.value < 0 else ATOM
+    return _latex_level(node)
 
 NS = "http://www.w3.org/1998/Math/MathML"
 REL_MO = {"=": "=", "!=": "≠", "<": "&lt;", ">": "&gt;", "<=": "≤", ">=": "≥", "~": "∼", "==": "≡"}
@@ -48,6 +79,9 @@ def row(*items: str) -> str:
     return "<mrow>" + "".join(items) + "</mrow>"
 
 
+_VISITS: dict[type, dict[type, Any]] = {}
+
+
 class MathMLPrinter(A.Visitor):
     """Walks a tree and returns Presentation MathML."""
 
@@ -56,6 +90,15 @@ class MathMLPrinter(A.Visitor):
             raise ValueError("display must be 'block' or 'inline'")
         self.display = display
         self.semantics = semantics
+        self._visits = _VISITS.setdefault(type(self), {})
+
+    def visit(self, node: A.Node) -> str:
+        # A.Visitor.visit with a dispatch table per printer class (no key tuple per call)
+        fn = self._visits.get(node.__class__)
+        if fn is None:
+            fn = getattr(type(self), "visit_" + type(node).__name__, None) or type(self).generic_visit
+            self._visits[node.__class__] = fn
+        return fn(self, node)
 
     def document(self, stmt: A.Node) -> str:
         body = self.statement(stmt) if isinstance(stmt, A.Statement) else self.visit(stmt)

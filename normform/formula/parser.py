@@ -31,6 +31,8 @@ _LARK_ERRORS: tuple = ()  # lark's LarkError, VisitError (imported with the pars
 # ids of built nodes that still contain raw placeholders (names to resolve, applications,
 # sums...): the resolver rebuilds only those paths and keeps every clean subtree as it is.
 _DIRTY: set[int] = set()
+# non-empty when the current parse has an ellipsis `...` (else no sum needs checking for one)
+_DOTS_SEEN: list = []
 
 
 def _get_parser():
@@ -265,8 +267,8 @@ class _TableDriver:
                     self.expected[state].add(sym)
                 if action is Shift:
                     (acts if terminal or sym == "$END" else gotos)[sym] = arg
-                else:
-                    acts[sym] = _reduction(arg, larkp.options.transformer, callbacks[arg])
+                else:  # (kind, size, rule name, callback, extra, {state below: run})
+                    acts[sym] = _reduction(arg, larkp.options.transformer, callbacks[arg]) + ({},)
         self.start = table.start_states["start"]
         self.end = table.end_states["start"]
         lexer = larkp.parser.lexer
@@ -297,7 +299,16 @@ class _TableDriver:
         for c in "".join(chr(i) for i in range(32, 127)) + "\t\n":
             self._bucket(c)
         self.terminal_names = set(lexer.terminals_by_name)
-        self.runs: dict[tuple[int, int, str], tuple[tuple, int, int | None]] = {}
+        # terminals that no callback ever sees: filtered out wherever a rule uses them
+        kept: set[str] = set()
+        used: set[str] = set()
+        for rule in larkp.rules:
+            for sym in rule.expansion:
+                if sym.is_term:
+                    used.add(sym.name)
+                    if not sym.filter_out or rule.options.keep_all_tokens:
+                        kept.add(sym.name)
+        self.dropped = frozenset(used - kept)
 
     def _run(self, key: tuple) -> tuple[tuple, int, int | None]:
         """The run of one-child reductions the table prescribes with ``key[1]`` on top of
@@ -311,7 +322,7 @@ class _TableDriver:
             act = self.actions[state].get(typ)
             if act is None or act.__class__ is int or act[1] != 1:
                 break
-            kind, _, origin, callback, keep = act
+            kind, _, origin, callback, keep, _ = act
             if kind == _R_ONE:
                 funcs.append(callback)
             elif kind == _R_WRAP:
@@ -325,10 +336,15 @@ class _TableDriver:
             state = self.gotos[below][origin]
             if state == self.end and typ == "$END":
                 break
+        # a chain of one operand is wrapped in a list, then unwrapped by _climb: skip both
+        i = 0
+        while i < len(funcs) - 1:
+            if funcs[i] is None and funcs[i + 1] is _climb:
+                del funcs[i:i + 2]
+            else:
+                i += 1
         after = self.actions[state].get(typ)
-        run = (tuple(funcs), state, after if after.__class__ is int else None)
-        self.runs[key] = run
-        return run
+        return (tuple(funcs), state, after if after.__class__ is int else None)
 
     def _bucket(self, c: str) -> Any:
         """What to do at character ``c``: a terminal name (a one-character token that no
@@ -359,22 +375,28 @@ class _TableDriver:
         row = actions[state]
         accept = self.end
         R_APPEND_OP, R_PASS, R_APPEND = _R_APPEND_OP, _R_PASS, _R_APPEND
-        runs, run_of = self.runs, self._run
+        run_of = self._run
         keywords, dispatch = self.keywords, self.dispatch
+        space = " " if dispatch.get(" ") is False else None  # when the grammar ignores spaces
         new, Tok = _new_tok, _Tok
+        dropped = self.dropped
         pos, n = 0, len(text)
         bad = None
         while True:
             # -- the next token (the lexer, done in line: one loop for both)
             if pos < n:
                 c = text[pos]
+                if c == space:  # the commonest white space (others go through the table)
+                    pos += 1
+                    continue
                 entry = dispatch.get(c)
                 if entry is None:
                     entry = self._bucket(c) if c not in dispatch else None
                 cls = entry.__class__
                 if cls is str:  # a one-character token
                     typ = entry
-                    tok = new(Tok, (typ, c, pos, pos + 1))
+                    # punctuation that every rule filters out needs no token object
+                    tok = None if typ in dropped else new(Tok, (typ, c, pos, pos + 1))
                     pos += 1
                 elif cls is tuple:  # the only terminal that can start here
                     m = entry[0].match(text, pos)
@@ -423,16 +445,16 @@ class _TableDriver:
                     row = actions[act]
                     break
                 if act is None:
+                    if tok is None:  # a dropped one-character token (just lexed: it ends at pos)
+                        tok = new(Tok, (typ, text[pos - 1], pos - 1, pos))
                     expected = self.expected[stack[-1]]
                     if typ == "$BAD":  # an unreadable character: say what this state accepts
                         raise _SyntaxError(bad, text[bad:bad + 1], expected, char=True)
                     raise _SyntaxError(tok[2], tok[1], expected, end=typ == "$END")
-                kind, size, origin, callback, keep = act
-                if size == 1:  # a run of one-child reductions, all in one step
-                    key = (stack[-2], stack[-1], typ)
-                    run = runs.get(key)
-                    if run is None:
-                        run = run_of(key)
+                if act[1] == 1:  # a run of one-child reductions, all in one step
+                    run = act[5].get(stack[-2])
+                    if run is None:  # (the action fixes the state and the lookahead)
+                        run = act[5][stack[-2]] = run_of((stack[-2], stack[-1], typ))
                     value = values[-1]
                     for f in run[0]:
                         value = [value] if f is None else f(value)
@@ -448,6 +470,7 @@ class _TableDriver:
                         break
                     row = actions[state]
                     continue
+                kind, size, origin, callback, keep, _ = act
                 if kind == R_APPEND_OP:  # chain OP unit: append both to the chain list
                     unit = vpop()
                     op = vpop()
@@ -482,9 +505,6 @@ class _TableDriver:
                 if state == accept and typ == "$END":
                     return values[-1]
         raise AssertionError("parser stopped before the end")  # pragma: no cover
-
-
-_tok_missing = object()
 
 
 # ------------------------------------------------------------ raw nodes -----
@@ -838,7 +858,11 @@ def _climb(ch: list) -> Any:
                 reduce(PRECEDENCE["JUXT"])
                 ops.append((PRECEDENCE["JUXT"], "JUXT"))
                 last_op = "JUXT"
-            out.append(c if typ is None else _DotsMark(_sp(c)))
+            if typ is None:
+                out.append(c)
+            else:
+                _DOTS_SEEN.append(c)
+                out.append(_DotsMark(_sp(c)))
             want_operand = False
         elif want_operand:  # a sign
             ops.append((SIGN_LEVEL.get(last_op, 6), c))
@@ -859,10 +883,9 @@ def _climb(ch: list) -> Any:
 def _climb_plain(ch: list) -> Any:
     """:func:`_climb` for the commonest chains, operands and binary operators alternating
     (the same algorithm without signs: fewer checks per operator)."""
-    prec, dirty, nodes = PRECEDENCE, _DIRTY, A.Node
+    prec, right_assoc, dirty, nodes = PRECEDENCE, RIGHT_ASSOC, _DIRTY, A.Node
     out = [ch[0]]
     ops: list[str] = []
-    levels: list[int] = []
     n = len(ch)
     i = 1
     while True:
@@ -872,11 +895,11 @@ def _climb_plain(ch: list) -> Any:
         else:
             level = -1  # the end: apply everything
         while ops:
-            top_level = levels[-1]
-            if top_level < level or (top_level == level and ops[-1] == "POW"):
+            top = ops[-1]
+            top_level = prec[top]
+            if top_level < level or (top_level == level and top in right_assoc):
                 break
-            top = ops.pop()
-            levels.pop()
+            ops.pop()
             right = out.pop()
             left = out[-1]
             ls, rs = left.span, right.span
@@ -894,7 +917,6 @@ def _climb_plain(ch: list) -> Any:
         if i >= n:
             return out[0]
         ops.append(typ)
-        levels.append(level)
         out.append(ch[i + 1])
         i += 2
 
@@ -907,6 +929,7 @@ class _Build(_LarkTransformer):
 
     def reset(self) -> None:
         _DIRTY.clear()
+        _DOTS_SEEN.clear()
         self.standalone: set[str] = set()
         self.applies: list = []
         self.bound_names: set[str] = set()
@@ -1081,7 +1104,17 @@ class _Build(_LarkTransformer):
         return o
 
     def apply(self, ch):
-        node = _Apply(_t(ch[0]), tuple(ch[1]), _join(ch[0], *ch[1]))
+        args = tuple(ch[1])
+        name = ch[0]
+        lo, hi = name.start_pos, name.end_pos  # a name is never empty: its span is real
+        for a in args:
+            span = a.span if isinstance(a, _NODES) else _sp(a)
+            if span != A.NO_SPAN:
+                if span[0] < lo:
+                    lo = span[0]
+                if span[1] > hi:
+                    hi = span[1]
+        node = _Apply(name.value, args, (lo, hi))
         self.applies.append(node)
         return node
 
@@ -1207,6 +1240,9 @@ _NOTE_RES = [
 ]
 
 
+_FOUR_DIGITS = re.compile(r"\d{4}")  # what the first pattern needs besides the dash; the second needs "_"
+
+
 def split_note(text: str) -> tuple[str, str | None]:
     """Split trailing attribution text (a contributor's name and a date) from the formula."""
     for rx in _NOTE_RES:
@@ -1326,7 +1362,8 @@ def parse_statement(text: str) -> A.Statement:
         raise TypeError("formula text must be a str")
     if len(text) > MAX_DEPTH:  # shorter text cannot break either limit
         _check_limits(text)
-    if "-" in text or "—" in text or "–" in text:  # every attribution starts with a dash
+    if ("-" in text or "—" in text or "–" in text) and ("_" in text or _FOUR_DIGITS.search(text)):
+        # (every attribution starts with a dash, and has a year or an underscored name)
         math, note = split_note(text)
     else:
         math, note = text, None
@@ -1605,7 +1642,9 @@ class _Resolver:
 
     def rel(self, raw: _Rel, main: bool = False) -> A.Node:
         expr = self.expr
-        operands = tuple([expr(o) for o in raw.operands])
+        if not raw.ops and raw.modulus is None:  # a plain expression
+            return expr(raw.operands[0])
+        operands = tuple(map(expr, raw.operands))
         if raw.modulus is not None:
             modulus = self.expr(raw.modulus)
             if raw.ops and all(op == "==" for op in raw.ops):
@@ -1630,9 +1669,13 @@ class _Resolver:
         return handler(self, x)
 
     def _binop(self, x: A.BinOp) -> A.Node:
-        if x.op in "+*" and self._has_dots(x):
+        if x.op in "+*" and _DOTS_SEEN and self._has_dots(x):
             return self.dots(x)
-        left, right = self.expr(x.left), self.expr(x.right)
+        left, right = x.left, x.right  # a clean child is kept as it is (as expr() would)
+        if id(left) in _DIRTY or not isinstance(left, A.Node):
+            left = self.expr(left)
+        if id(right) in _DIRTY or not isinstance(right, A.Node):
+            right = self.expr(right)
         if x.implicit and isinstance(x.right, _Apply) and isinstance(right, A.BinOp) \
                 and right.implicit and isinstance(right.left, A.Symbol) and right.left.name == x.right.name:
             # `3n(n+1)` is (3*n)*(n+1), not 3*(n*(n+1)): keep products left-associative
@@ -1691,7 +1734,12 @@ class _Resolver:
 
     def apply(self, x: _Apply) -> A.Node:
         n, args = x.name, x.args
-        if any(isinstance(a, _Arg) for a in args):
+        for a in args:
+            if a.__class__ is _Arg:
+                break
+        else:
+            a = None
+        if a is not None:
             raise self.err(f"'=' or '..' inside {n}(...)", x)
         if n in self.sequences:
             return self.seqref(n, args, x)
@@ -1702,7 +1750,7 @@ class _Resolver:
             return _binop("*", sym, self.expr(args[0]), True, x.span)
         spec = lookup(n, len(args))
         if spec is not None and not is_var:
-            return _call(spec.name, tuple([self.expr(a) for a in args]), n, x.span)
+            return _call(spec.name, tuple(map(self.expr, args)), n, x.span)
         if spec is None:
             other = lookup(n, None)
             if other is not None and len(n) > 2 and n not in self.sequences:
@@ -1714,7 +1762,7 @@ class _Resolver:
             raise self.err(f"{n} is used both as a variable and as a sequence", x)
         if len(n) > 2 and n not in _GREEK and lookup(n, None) is not None:
             raise self.err(f"{n} is a function: write {n}(...)", x)
-        return _seqref(n, tuple([self.expr(a) for a in args]), subscript, x.span)
+        return _seqref(n, tuple(map(self.expr, args)), subscript, x.span)
 
     def subscript(self, x: _Sub) -> A.Node:
         n = x.name
@@ -1846,7 +1894,7 @@ _EXPR_HANDLERS: dict[type, Any] = {
     A.UnaryOp: lambda self, x: _unary(x.op, self.expr(x.operand), x.span),
     A.Power: lambda self, x: _power(self.expr(x.base), self.expr(x.exponent), x.span),
     A.Factorial: lambda self, x: _factorial(self.expr(x.operand), x.double, x.span),
-    A.Call: lambda self, x: _call(x.name, tuple([self.expr(a) for a in x.args]), x.written, x.span),
+    A.Call: lambda self, x: _call(x.name, tuple(map(self.expr, x.args)), x.written, x.span),
     A.Integer: lambda self, x: x,
     A.Decimal: lambda self, x: x,
     A.Rational: lambda self, x: x,

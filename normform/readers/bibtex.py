@@ -124,8 +124,15 @@ def read_bibtex(text: str, path: str | None = None) -> BibtexResult:
         for exc in errors:
             _, _, pos = exc.error_context_info
             pos = pos or 0
+            entry_open = ""  # the closer the entry still needs, when its own brace is open
             if "premature end" in str(exc) and pos > 0 and chunk[pos - 1:pos] in ("{", '"'):
                 pos -= 1  # point at the opening brace that is never closed
+            elif "premature end" in str(exc) and not chunk[pos:].strip():
+                # the chunk ran out with every value closed: the entry's own brace is open,
+                # so point at it rather than at the start of the next entry
+                opener = re.search(r"[{(]", chunk)
+                if opener:
+                    pos, entry_open = opener.start(), "}" if opener.group() == "{" else ")"
             line, col = _line_col(text, start + pos)
             message = str(exc.args[0]) if exc.args else str(exc)
             expected: tuple[str, ...] = ()
@@ -133,6 +140,9 @@ def read_bibtex(text: str, path: str | None = None) -> BibtexResult:
             if m:
                 expected = (m.group(1),)
                 message = f"malformed entry: {message}; the entry is skipped"
+            elif "premature end" in message and entry_open:
+                expected = (f"'{entry_open}'",)
+                message = f"unclosed entry: no '{entry_open}' closes this entry; the entry is skipped"
             elif "premature end" in message:
                 expected = ("'}'",)
                 message = "unclosed brace or quote: the entry ends before this value is closed; the entry is skipped"

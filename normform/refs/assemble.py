@@ -35,9 +35,7 @@ _KIND_WORDS = re.compile(
     r"|(?P<report>technical report|tech\.? rep|report|preprint|lecture notes|course notes|notes))\b")
 _THESIS = re.compile(r"(?i)\b(?:ph\.?\s?d\.?|doctoral|master'?s|habilitation|diplom|thesis|dissertation|tesis)\b")
 _REPORT = re.compile(r"(?i)\b(?:technical report|tech\.? rep|report|preprint|lecture notes|course notes|notes)\b")
-_UNPUB = re.compile(r"(?i)\b(?:to appear|in press|forthcoming|submitted|in preparation|personal communication|private communication|unpublished|manuscript)\b")
 _PROC = re.compile(r"(?i)\b(?:proc\.|proceedings|conference|symposium|workshop|congress|colloquium|meeting)\b")
-_SOFTWARE = re.compile(r"(?i)\b(?:software|package|version \d|computer program|data ?set|github)\b")
 
 
 @lru_cache(maxsize=1)
@@ -47,6 +45,7 @@ def _latex():
 
 
 _COMPANY_TAIL = re.compile(r"(?:,?\s?(?:Inc\.|Ltd\.|Co\.|GmbH|S\.\s?A\.|and Co\.|& Co\.|& Cie|Corp\.|LLC|KG))+")
+_IN_BEFORE = re.compile(r"\b[Ii]n:?\s*\Z")
 _TITLE_VOL = re.compile(r",\s*(?:[Vv]ol\.|[Vv]olume)\s*(?P<v>\d{1,4})\Z")
 _CONTAINER_VOL = re.compile(r"(?<=[a-zA-Z.'])\s+(?P<v>\d{1,4})\Z")
 _NEEDS_CLEAN = re.compile(r"[\\{}~$*_\t\n]|\s\s|,,|\.\.")
@@ -160,6 +159,56 @@ _LEFTOVER_OK = lx.CONNECTORS | {"of", "the", "pages", "page", "available", "onli
                                 "series", "ser", "a", "an", "at", "on", "from", "de", "la", "des", "volume"}
 
 
+def _repair_missing_title(tokens: list[Token], labels: list[str]) -> float:
+    """No title but two separate container runs: the first one is the title
+    (comma-separated styles such as "A. Author, Title, Journal 12, ...").
+    Punctuation-and-short leftovers up to the next separator go with it."""
+    if "title" in labels:
+        return 1.0
+    starts = [i for i, lab in enumerate(labels) if lab == "container_title" and (i == 0 or labels[i - 1] != lab)]
+    if len(starts) < 2:
+        return 1.0
+    i = starts[0]
+    n = len(labels)
+    while i < n and labels[i] == "container_title":
+        labels[i] = "title"
+        i += 1
+    # ") I" after "GL(3": leftovers before the next comma/period
+    j = i
+    while j < n and labels[j] == "O" and tokens[j].text not in ",.;" and j - i < 4:
+        j += 1
+    if j < n and tokens[j].text in ",.;" and j > i:
+        for k in range(i, j):
+            labels[k] = "title"
+    return 0.8
+
+
+def _repair_missing_publisher(tokens: list[Token], labels: list[str]) -> None:
+    """No publisher, but after the title an unlabeled run of capitalised
+    words sits right before ", Place" or ", Year" ("Pitman, Boston, MA,
+    1984"): that run is the publisher.  Unknown publisher names get no
+    dictionary help, but the book layout is unambiguous."""
+    if "publisher" in labels or "title" not in labels or "container_title" in labels:
+        return
+    last_title = max(i for i, lab in enumerate(labels) if lab == "title")
+    n = len(tokens)
+    i = last_title + 1
+    while i < n:
+        if labels[i] == "O" and tokens[i].kind == "word" and tokens[i].text[:1].isupper() \
+                and tokens[i].text.lower() not in lx.CONNECTORS and i > 0 and tokens[i - 1].text in ".,;:":
+            j = i
+            while j < n and labels[j] == "O" and (tokens[j].kind == "word" and tokens[j].text[:1].isupper()
+                                                  or tokens[j].text in ("&", "-", "and")) and j - i < 6:
+                j += 1
+            if j + 1 < n and tokens[j].text == "," and labels[j + 1] in ("place", "date"):
+                for k in range(i, j):
+                    labels[k] = "publisher"
+                return
+            i = j + 1
+        else:
+            i += 1
+
+
 def _leftover_penalty(tokens: list[Token], labels: list[str]) -> float:
     """Content words the labeler could not place anywhere lower the record
     confidence: something in the line is not understood."""
@@ -174,7 +223,8 @@ def assemble(text: str, tokens: list[Token], labels: list[str], marg: list[float
              seq_prob: float, truncated: bool = False) -> Reference:
     labels = list(labels)
     marg = list(marg)
-    repair = _repair_labels(tokens, labels, marg)
+    repair = _repair_labels(tokens, labels, marg) * _repair_missing_title(tokens, labels)
+    _repair_missing_publisher(tokens, labels)
     runs: dict[str, list[_Run]] = {}
     for r in _runs(tokens, labels, marg):
         runs.setdefault(r.label, []).append(r)
@@ -362,6 +412,16 @@ def assemble(text: str, tokens: list[Token], labels: list[str], marg: list[float
     if truncated:
         notes.append("[line cut: too many tokens]")
         penalty *= 0.2
+
+    # A "container" in a book-like record (publisher, no volume, issue, pages
+    # or editors, not introduced by "In") is the book's series.
+    crun, _ = _pick(runs, "container_title", longest=True)
+    if (crun is not None and values.get("container_title") and values.get("publisher")
+            and not values.get("series") and not any(values.get(k) for k in ("volume", "issue", "pages", "editors"))
+            and not _IN_BEFORE.search(text, max(0, tokens[crun.first].start - 5), tokens[crun.first].start)):
+        values["series"] = values.pop("container_title")
+        infos = [FieldInfo("series", round(i.confidence * 0.8, 4), i.span) if i.field == "container_title" else i
+                 for i in infos]
 
     found: dict[str, str] = {}
     for m in _KIND_WORDS.finditer(text):

@@ -53,12 +53,6 @@ def _ends_initial(piece: str) -> bool:
     return bool(words) and bool(_INITIAL_ONLY.match(words[-1])) and piece not in lx.SUFFIXES
 
 
-def _clean(text: str) -> str:
-    text = _ROLE.sub(" ", text)
-    return text.strip(" ,;:.") if not text.rstrip().endswith(".") or len(text.strip()) < 3 \
-        else text.strip(" ,;:")
-
-
 @lru_cache(maxsize=100_000)
 def split_names(text: str) -> tuple[tuple[Name, ...], bool]:
     """Names in ``text`` and whether the list ended with *et al.*"""
@@ -88,6 +82,11 @@ def split_names(text: str) -> tuple[tuple[Name, ...], bool]:
             and all(_given_word(w) for w in chunks[1].split()):
         # "Quillfeather, Ada": the second piece starts with a known given name
         inverted = True
+    if not inverted and len(chunks) % 2 == 0 and groups[-1].count(",") == 1 and \
+            all(_core_words(c) <= 3 and c[:1].isupper() and not c.endswith(".") for c in chunks[1::2]) and \
+            (len(groups) >= 2 or (len(chunks) == 2 and len(chunks[1].split()) == 1)):
+        # "Izhakian, Zur, Knebusch, Manfred, and Rowen, Louis"; "Bojanić, Ranko"
+        inverted = True
     if not inverted and len(chunks) >= 2 and len(groups) >= 2 and all(g.count(",") == 1 for g in groups):
         # "Scholze, Peter and Weinstein, Jared": one comma inside every group
         inverted = all(len(g.split(",")[0].split()) <= 3 for g in groups)
@@ -111,7 +110,14 @@ def split_names(text: str) -> tuple[tuple[Name, ...], bool]:
             continue
         names.append(parse_one(c))
         i += 1
-    return tuple(n for n in names if n.family or n.literal), etal
+    return tuple(_dotted_suffix(n) for n in names if n.family or n.literal), etal
+
+
+def _dotted_suffix(n: Name) -> Name:
+    # "Jr" lost its period to the labeler (it was the line's punctuation)
+    if n.suffix in ("Jr", "Sr", "jr", "sr", "Jun"):
+        return Name(family=n.family, given=n.given, particle=n.particle, suffix=n.suffix + ".")
+    return n
 
 
 def _looks_given(chunk: str, family_chunk: str) -> bool:
