@@ -229,8 +229,8 @@ def _reduction(rule, builder, lark_callback) -> tuple:
     if keep is not None:  # which children the callback gets: a slice, or an itemgetter (a tuple)
         keep = slice(keep[0], keep[0] + 1) if len(keep) == 1 else (slice(0, 0) if not keep else itemgetter(*keep))
     if size == 1 and keep is None:
-        one = {_Build.expr: _climb, _Build.body: _climb, _Build.integer: builder.integer_tok,
-               _Build.name: builder.name_tok, _Build.rel: builder.rel_one, _Build.seg: builder.seg_one,
+        one = {_Build.expr: _climb, _Build.body: _climb, _Build.integer: builder.integer_t,
+               _Build.name: builder.name_t, _Build.rel: builder.rel_one, _Build.seg: builder.seg_one,
                _Build.start: builder.start_one}.get(func)
         if one is not None:
             return (_R_ONE, size, origin, one, None)
@@ -368,10 +368,7 @@ class _TableDriver:
     def parse(self, text: str):
         actions, gotos = self.actions, self.gotos
         state = self.start
-        stack = [state]
-        push = stack.append
-        values: list = []
-        vpush, vpop = values.append, values.pop
+        stack: list = [state]
         row = actions[state]
         accept = self.end
         R_APPEND_OP, R_PASS, R_APPEND = _R_APPEND_OP, _R_PASS, _R_APPEND
@@ -436,12 +433,13 @@ class _TableDriver:
             else:
                 typ = "$END"
                 tok = new(Tok, (typ, "", n, n))
-            # -- the LALR actions for it
+            # -- the LALR actions for it. One stack [state, value, state, value, ..., state]:
+            # a shift pushes (token, state); a reduction of n children replaces the top 2n
+            # items by (value, goto state).
             while True:
                 act = row.get(typ)
                 if act.__class__ is int:  # shift
-                    push(act)
-                    vpush(tok)
+                    stack += (tok, act)
                     row = actions[act]
                     break
                 if act is None:
@@ -452,58 +450,48 @@ class _TableDriver:
                         raise _SyntaxError(bad, text[bad:bad + 1], expected, char=True)
                     raise _SyntaxError(tok[2], tok[1], expected, end=typ == "$END")
                 if act[1] == 1:  # a run of one-child reductions, all in one step
-                    run = act[5].get(stack[-2])
+                    below = stack[-3]
+                    run = act[5].get(below)
                     if run is None:  # (the action fixes the state and the lookahead)
-                        run = act[5][stack[-2]] = run_of((stack[-2], stack[-1], typ))
-                    value = values[-1]
+                        run = act[5][below] = run_of((below, stack[-1], typ))
+                    value = stack[-2]
                     for f in run[0]:
                         value = [value] if f is None else f(value)
-                    values[-1] = value
+                    stack[-2] = value
                     state = stack[-1] = run[1]
                     if state == accept and typ == "$END":
                         return value
                     target = run[2]
                     if target is not None:  # the table then shifts the lookahead
-                        push(target)
-                        vpush(tok)
+                        stack += (tok, target)
                         row = actions[target]
                         break
                     row = actions[state]
                     continue
                 kind, size, origin, callback, keep, _ = act
                 if kind == R_APPEND_OP:  # chain OP unit: append both to the chain list
-                    unit = vpop()
-                    op = vpop()
-                    chain = values[-1]
-                    chain.append(op)
-                    chain.append(unit)
-                    del stack[-3:]
+                    value = stack[-6]
+                    value.append(stack[-4])
+                    value.append(stack[-2])
                 elif kind == R_PASS:  # `?rule` with one kept child: the child is the value
-                    if size != 1:
-                        value = values[keep - size]
-                        del values[-size:]
-                        vpush(value)
-                    del stack[-size:]
+                    value = stack[2 * (keep - size)]
                 elif kind == R_APPEND:  # list item (or list SEP item): append in place
-                    item = vpop()
-                    if size == 3:
-                        vpop()
-                    values[-1].append(item)
-                    del stack[-size:]
+                    value = stack[-2 * size]
+                    value.append(stack[-2])
                 elif size:
-                    children = values[-size:]
-                    del values[-size:]
-                    del stack[-size:]
+                    children = stack[-2 * size::2]
                     if keep is not None:  # drop punctuation tokens, as lark's child filter does
                         children = children[keep] if keep.__class__ is slice else keep(children)
-                    vpush(callback(children))
+                    value = callback(children)
                 else:
-                    vpush(callback([]))
+                    value = callback([])
+                if size:
+                    del stack[-2 * size:]
                 state = gotos[stack[-1]][origin]
-                push(state)
+                stack += (value, state)
                 row = actions[state]
                 if state == accept and typ == "$END":
-                    return values[-1]
+                    return value
         raise AssertionError("parser stopped before the end")  # pragma: no cover
 
 
@@ -1078,6 +1066,25 @@ class _Build(_LarkTransformer):
     # --- atoms
     def integer(self, ch):
         return self.integer_tok(ch[0])
+
+    # the driver's variants of integer/name: its tokens are _Tok tuples (type, value, start, end)
+    def integer_t(self, tok):
+        o = _new(A.Integer)
+        d = o.__dict__
+        d["value"] = int(tok[1])
+        d["span"] = tok[2:]
+        return o
+
+    def name_t(self, tok):
+        name = tok[1]
+        self.standalone.add(name)
+        if name in _CONSTANTS:  # pi, e, i...: constant or variable depends on context
+            return _Name(name, tok[2:])
+        o = _new(A.Symbol)
+        d = o.__dict__
+        d["name"] = name
+        d["span"] = tok[2:]
+        return o
 
     def integer_tok(self, tok):
         o = _new(A.Integer)  # as _integer(), inlined: one of the commonest reductions

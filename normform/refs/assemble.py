@@ -506,6 +506,12 @@ def _record_confidence(v: dict, infos: list[FieldInfo], seq_prob: float, penalty
         conf *= 0.7
     if kind is Kind.OTHER:
         conf *= 0.8
+    # an incomplete record for its kind is worth a look
+    missing = {Kind.ARTICLE: ("volume", "date"), Kind.BOOK: ("publisher", "date"),
+               Kind.CHAPTER: ("container_title", "date"), Kind.PAPER: ("container_title", "date")}.get(kind, ())
+    for key in missing:
+        if not v.get(key):
+            conf *= 0.85
     return max(0.0, min(1.0, conf))
 
 
