@@ -215,6 +215,18 @@ def _title(r: random.Random) -> str:
              f"{r.choice(_EXTRA_NOUNS)} and {r.choice(_EXTRA_NOUNS)}", f"{r.choice(_FIELDS)}"))
     if r.random() < 0.05:
         t += r.choice((" I", " II", " III"))
+    x = r.random()
+    if x < 0.10:
+        # multi-sentence titles: part numbers and subtitles after a period
+        rom = r.choice(("I", "II", "III", "IV", "VI", "I and II", "Vol. I, II", "Volume 1", "Tome I", "Part 2"))
+        sub = r.choice((f"The {a} {n}", f"{a.capitalize()} {en}", f"{o.capitalize()}", "Basic notions",
+                        f"Étude des {en}", f"{a.capitalize()} methods"))
+        t += r.choice((f". {rom}. {sub}", f". {rom}: {sub}", f". {rom}", f", {rom}. {sub}"))
+    elif x < 0.15:
+        # brackets inside titles
+        t = r.choice((f"{t} ({r.choice(('2. ed.', 'Première partie', 'extended abstract', 'corrected', 'in Russian'))})",
+                      f"{a.capitalize()} {en} of (co){r.choice(_EXTRA_NOUNS)}",
+                      f"On the ({a}) {n} of {o}", f"{t} [{r.choice(('in French', 'translation', 'reprint'))}]"))
     if r.random() < 0.06:
         t += " " + r.choice(("in dimension $3$", "for $n \\geq 2$", "over $\\mathbb{F}_q$", "of rank two",
                              "in characteristic $p$", "and the 1979 problem"))
@@ -289,6 +301,84 @@ def _invented_publisher(r: random.Random) -> tuple[str, str]:
     return pub, place
 
 
+_ORD = ("First", "Second", "Third", "Fourth", "Fifth", "Sixth", "Seventh", "Eighth", "Ninth", "Tenth")
+_MEET = ("International Conference on", "Workshop on", "Symposium on", "Annual Symposium on",
+         "International Colloquium on", "Summer School on", "Conference on", "Joint Conference on",
+         "Meeting on", "International Workshop on", "Seminar on")
+_CITIES = ("Portland, OR, USA", "Paris, France", "Vienna, Austria", "Kraków, Poland", "Oberwolfach",
+           "Kyoto, Japan", "Berkeley, Calif.", "Montréal, QC, Canada", "Edinburgh, UK", "Bordeaux",
+           "Quillfeather", "Brighton", "Univ. California, Berkeley, Calif.", "Trieste, Italy", "Lyon")
+_MONTHS = ("January", "February", "March", "April", "May", "June", "July", "August", "September",
+           "October", "November", "December")
+
+
+def _acronym(words: str, r: random.Random) -> str:
+    caps = "".join(w[0] for w in words.split() if w[:1].isupper())
+    return (caps or "QSEM")[:6]
+
+
+def _invented_proc(r: random.Random, year: int) -> str:
+    """Proceedings titles as printed: ordinals, acronyms, dates, places,
+    parenthesised meeting data, parts -- commas everywhere."""
+    fld = " ".join(w[:1].upper() + w[1:] for w in r.choice(_FIELDS).split())
+    n = r.randint(2, 45)
+    num = r.choice((f"{n}th", r.choice(_ORD)))
+    meet = f"{num} {r.choice(_MEET)} {fld}"
+    acro = _acronym(fld, r) + r.choice(("", "", "A", "S"))
+    mon = r.choice(_MONTHS)
+    d = r.randint(1, 24)
+    parts = [r.choice(("Proceedings of the ", "Proc. ", "", "", "")) + meet]
+    x = r.random()
+    if x < 0.3:
+        parts.append(f", {acro} {year}, {mon} {d}-{d + r.randint(1, 5)}, {year}, {r.choice(_CITIES)}")
+    elif x < 0.45:
+        parts.append(f" ({acro} {year})")
+    elif x < 0.6:
+        parts = [f"{fld} - {meet.replace(fld, '').strip()}{'' if r.random() < 0.5 else ' ' + fld}".strip()]
+        parts = [f"{fld} - {num} {r.choice(_MEET).replace(' on', '')}, {acro} {year}, {r.choice(_CITIES)}, {mon} {d}-{d + 3}, {year}"]
+    elif x < 0.72:
+        parts = [f"{r.choice(_TITLE_HEADS)} (Proc. {r.choice(('Internat.', 'Sympos.', 'Conf.', 'Instructional Conf.', 'Summer School'))}, "
+                 f"{r.choice(_CITIES)}, {year})"]
+    elif x < 0.82:
+        parts.append(f", {acro} '{year % 100:02d}")
+    elif x < 0.9:
+        parts = [f"{fld} - {acro}-{n}"]
+    if r.random() < 0.12:
+        parts.append(r.choice((", Proceedings, Part II", ", Part I", ". Vol. II", ", Vol. 1", ", Proceedings")))
+    return "".join(parts)
+
+
+_TITLE_HEADS = ("Modular functions of one variable, IV", "Algebraic number theory", "Combinatorial theory",
+                "Enumerative combinatorics", "Topics in algebra", "Number theory days", "Séminaire de théorie des nombres",
+                "Probability theory", "Symmetric functions", "Combinatorics '79")
+_SERPAT = ("{N} Series in {F}", "Modern {N} Classics", "{N} Lecture Notes in {F}", "Studies in {F}",
+           "{N} Monographs in {F}", "Texts and Readings in {F}", "{N} Tracts in {F}", "Publications de l'Université de {N}",
+           "{N} Mathematical Library", "{N} Classics", "{F} and its Applications", "Surveys in {F}",
+           "{N} Undergraduate Series", "Memoirs in {F}", "Collection {N}")
+
+
+def _invented_series(r: random.Random) -> str:
+    f = " ".join(w[:1].upper() + w[1:] for w in r.choice(_FIELDS).split())
+    name = r.choice((_family(r), r.choice(_SYL1) + r.choice(_SYL2), "Quillfeather"))
+    return r.choice(_SERPAT).format(N=name, F=f)
+
+
+def _glued_publisher(pub: str, place: str, r: random.Random) -> str:
+    """Publisher strings with a place inside, as catalogue metadata prints
+    them: "Springer New York, NY", "Springer-Verlag Berlin Heidelberg",
+    "A Press, London; B Co., Inc., New York"."""
+    x = r.random()
+    city = place.split(",")[0]
+    if x < 0.5:
+        return f"{pub} {place if r.random() < 0.4 else city}"
+    if x < 0.7:
+        other, oplace = r.choice(lx.PUBLISHERS)
+        return f"{pub}, {place}; {other}, {oplace}"
+    if x < 0.85:
+        return f"{pub}, {city}-{r.choice(('New York', 'London', 'Berlin', 'Paris', 'Heidelberg'))}"
+    return f"{pub} ({_acronym(pub, r)})"
+
+
 def make_record(r: random.Random, i: int) -> dict:
     kinds = ("article-journal", "book", "chapter", "paper-conference", "thesis", "report",
              "manuscript", "webpage", "software", "personal")
@@ -322,11 +412,13 @@ def make_record(r: random.Random, i: int) -> dict:
                                       f"{r.randint(1, 20)}.{r.randint(1, 9)}.{r.randint(1, 9)}"))
     elif typ in ("book", "chapter", "paper-conference"):
         pub, place = r.choice(lx.PUBLISHERS) if r.random() < 0.7 else _invented_publisher(r)
+        if r.random() < 0.15:
+            pub = _glued_publisher(pub, place, r)
         rec["publisher"] = pub
-        if r.random() < 0.7:
+        if r.random() < 0.6:
             rec["publisher-place"] = place
-        if r.random() < 0.35:
-            rec["collection-title"] = r.choice(lx.SERIES)
+        if r.random() < 0.45:
+            rec["collection-title"] = r.choice(lx.SERIES) if r.random() < 0.6 else _invented_series(r)
             if r.random() < 0.7:
                 rec["collection-number"] = str(r.randint(1, 2200))
         if typ == "book":
@@ -335,8 +427,11 @@ def make_record(r: random.Random, i: int) -> dict:
             if r.random() < 0.15:
                 rec["number-of-pages"] = str(r.randint(80, 900))
         else:
-            rec["container-title"] = (r.choice(_PROC).format(n=r.randint(2, 40), y=year)
-                                      if typ == "paper-conference" else _title(r))
+            if typ == "paper-conference":
+                rec["container-title"] = (r.choice(_PROC).format(n=r.randint(2, 40), y=year)
+                                          if r.random() < 0.35 else _invented_proc(r, year))
+            else:
+                rec["container-title"] = _title(r)
             if r.random() < 0.7:
                 rec["editor"] = [make_person(r) for _ in range(r.randint(1, 3))]
             a = r.randint(1, 600)
@@ -915,6 +1010,130 @@ def render_template(rec: dict, r: random.Random) -> list[tuple[str, str]]:
     return b.p
 
 
+# ------------------------------------------------ BibTeX-style layouts
+def _bst_names(people: list[dict], form: str, r: random.Random) -> str:
+    names = [_name_pieces(p, form, r) for p in people]
+    if len(names) == 1:
+        return names[0]
+    if len(names) == 2:
+        return names[0] + " and " + names[1]
+    return ", ".join(names[:-1]) + ", and " + names[-1]
+
+
+def _sentence_case(t: str) -> str:
+    # BibTeX's change.case "t": first letter kept, the rest lower-cased
+    # (TeX math and the letter after ": " kept as typed)
+    out = t[:1] + re.sub(r"\$[^$]*\$|[^$]+", lambda m: m.group() if m.group().startswith("$") else m.group().lower(), t[1:])
+    return re.sub(r"(?<=: )[a-z]", lambda m: m.group().upper(), out)
+
+
+def render_bst_like(rec: dict, r: random.Random) -> list[tuple[str, str]] | None:
+    """The layouts of the classic BibTeX styles (plain/abbrv/plainnat,
+    amsplain, siam, apalike), written from how those styles print; used
+    with varied options (initials or full names, lower-cased titles,
+    month, DOI/URL tails)."""
+    typ = rec["type"]
+    if typ not in ("article-journal", "book", "chapter", "paper-conference"):
+        return None
+    layout = r.choice(("plain", "abbrv", "ams", "siam", "apa"))
+    b = _B()
+    year = str(rec["issued"]["date-parts"][0][0])
+    people = rec.get("author") or []
+    eds = rec.get("editor") or []
+    form = {"plain": "full", "abbrv": "init", "ams": r.choice(("init", "full")), "siam": "init", "apa": "inv"}[layout]
+    title = rec["title"]
+    if typ != "book" and r.random() < 0.6:
+        title = _sentence_case(title)
+    sep = ", " if layout in ("ams", "siam") else ". "
+    if people:
+        b.f(_bst_names(people, form, r), "authors")
+    elif eds:
+        b.f(_bst_names(eds, form, r), "editors").o(", editors" if layout != "ams" else ", eds.")
+    if layout == "apa":
+        b.o(" (").f(year, "date").o("). ")
+    else:
+        b.o(sep)
+    b.f(title, "title")
+    vol, iss, pg = rec.get("volume"), rec.get("issue"), rec.get("page")
+    ser, sno = rec.get("collection-title"), rec.get("collection-number")
+    pub, place = rec.get("publisher"), rec.get("publisher-place")
+    dash = "–" if r.random() < 0.7 else "--"
+    pgs = pg.replace("-", dash) if pg else None
+    if typ == "article-journal":
+        j = rec["container-title"]
+        if layout == "ams":
+            b.o(", ").f(j, "container_title").o(" ").f(vol, "volume").o(" (").f(year, "date").o(")")
+            if iss:
+                b.o(", no. ").f(iss, "issue")
+            if pgs:
+                b.o(", ").f(pgs, "pages")
+        elif layout == "siam":
+            b.o(", ").f(j, "container_title").o(", ").f(vol, "volume").o(" (").f(year, "date").o(")")
+            if pgs:
+                b.o(", pp. " if "-" in pg else ", p. ").f(pgs, "pages")
+        else:
+            b.o(". ").f(j, "container_title").o(", ").f(vol, "volume")
+            if iss:
+                b.o("(").f(iss, "issue").o(")")
+            if pgs:
+                b.o(":").f(pgs, "pages")
+            if layout != "apa":
+                b.o(", ")
+                if len(rec["issued"]["date-parts"][0]) > 1:
+                    b.f(_MONTHS[rec["issued"]["date-parts"][0][1] - 1][: r.choice((3, 9))], "date").o(" ")
+                b.f(year, "date")
+    else:
+        inner = typ in ("chapter", "paper-conference")
+        if inner:
+            if layout == "ams":
+                b.o(", ").f(rec["container-title"], "container_title")
+                if eds:
+                    b.o(" (").f(_bst_names(eds, "init", r), "editors").o(", eds.)")
+            else:
+                b.o(". In " if layout != "siam" else ", in ")
+                if eds and layout != "siam":
+                    b.f(_bst_names(eds, form if form != "inv" else "full", r), "editors").o(", editors, ")
+                b.f(rec["container-title"], "container_title")
+                if eds and layout == "siam":
+                    b.o(", ").f(_bst_names(eds, "init", r), "editors").o(", eds.")
+        if ser:
+            if layout == "ams":
+                b.o(", ").f(ser, "series")
+                if sno:
+                    b.o(", vol. ").f(sno, "series_number")
+            elif sno:
+                if r.random() < 0.6:
+                    b.o(", " if inner or layout == "siam" else ", ").o("volume " if layout != "siam" else "vol. ").f(sno, "series_number").o(" of ").f(ser, "series")
+                else:
+                    b.o(". Number ").f(sno, "series_number").o(" in ").f(ser, "series")
+            else:
+                b.o(". " if layout != "siam" else ", ").f(ser, "series")
+        if rec.get("edition") and layout == "ams":
+            n = int(rec["edition"])
+            b.o(", ").f(next(a for x, a, c in _EDITIONS if x == n), "edition").o(" ed.")
+        if inner and pgs and layout in ("plain", "abbrv", "apa"):
+            b.o(", pages ").f(pgs, "pages")
+        if typ == "paper-conference" and layout in ("plain", "abbrv") and place and r.random() < 0.7:
+            b.o(", ").f(place, "place").o(", ").f(year, "date").o(". ").f(pub, "publisher")
+        else:
+            b.o(", " if layout in ("ams", "siam") else ". ").f(pub, "publisher")
+            if place:
+                b.o(", ").f(place, "place")
+            if rec.get("edition") and layout != "ams":
+                n = int(rec["edition"])
+                b.o(", ").f(next(c for x, a, c in _EDITIONS if x == n), "edition").o(" edition")
+            if layout != "apa":
+                b.o(", ").f(year, "date")
+        if inner and pgs and layout in ("ams", "siam"):
+            b.o(", pp. ").f(pgs, "pages")
+    if "DOI" in rec and r.random() < 0.4:
+        b.o(r.choice((". doi: ", ". ", ", "))).f(r.choice(("", "https://doi.org/")) + rec["DOI"], "doi")
+    if "mr" in rec and layout == "ams" and r.random() < 0.7:
+        b.o(". ").f("MR" + rec["mr"], "mr")
+    b.o(".")
+    return b.p
+
+
 # ---------------------------------------------------------------- noise
 def noise(pieces: list[tuple[str, str]], r: random.Random) -> list[tuple[str, str]]:
     out = []
@@ -987,6 +1206,8 @@ def main(argv=None) -> int:
     ap.add_argument("--styles", type=int, default=120, help="number of CSL styles to draw from")
     ap.add_argument("--csl-share", type=float, default=0.45)
     ap.add_argument("--pybtex-share", type=float, default=0.15)
+    ap.add_argument("--bst-share", type=float, default=0.4,
+                    help="share of the non-CSL, non-pybtex lines written in BibTeX-style layouts")
     args = ap.parse_args(argv)
     r = random.Random(args.seed)
     t0 = time.time()
@@ -994,7 +1215,7 @@ def main(argv=None) -> int:
     print(f"{len(styles)} CSL styles loaded in {time.time() - t0:.1f}s", file=sys.stderr)
     os.makedirs(os.path.dirname(args.out) or ".", exist_ok=True)
     bad_styles: dict[str, int] = {}
-    counts = {"csl": 0, "pybtex": 0, "template": 0, "dropped": 0}
+    counts = {"csl": 0, "pybtex": 0, "bst": 0, "template": 0, "dropped": 0}
     with open(args.out, "w", encoding="utf-8") as out:
         i = 0
         written = 0
@@ -1026,7 +1247,13 @@ def main(argv=None) -> int:
                 pieces = spans_to_pieces(text, spans)
                 src = "pybtex:" + sname
             else:
-                pieces = render_template(rec, r)
+                pieces = None
+                if r.random() < args.bst_share:
+                    pieces = render_bst_like(rec, r)
+                    src = "bst"
+                if pieces is None:
+                    pieces = render_template(rec, r)
+                    src = "template"
             if r.random() < 0.35:
                 pieces = noise(pieces, r)
             text, spans = pieces_to_spans(pieces)

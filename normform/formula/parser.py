@@ -202,7 +202,8 @@ _R_CALL, _R_ONE, _R_PASS, _R_WRAP, _R_APPEND, _R_APPEND_OP = range(6)
 
 
 def _reduction(rule, builder, lark_callback) -> tuple:
-    """The action tuple (kind, size, rule name, callback, extra) of one grammar rule.
+    """The action tuple (kind, size, rule name, callback, extra) of one grammar rule
+    (extra: the kept child of a pass-through, or which children a callback gets).
 
     The list-building callbacks of the builder (first item, append, chain operator)
     are done in place by the driver, and callbacks of one child get the child itself,
@@ -298,7 +299,6 @@ class _TableDriver:
         self.dispatch: dict[str, Any] = {}
         for c in "".join(chr(i) for i in range(32, 127)) + "\t\n":
             self._bucket(c)
-        self.terminal_names = set(lexer.terminals_by_name)
         # terminals that no callback ever sees: filtered out wherever a rule uses them
         kept: set[str] = set()
         used: set[str] = set()
@@ -311,11 +311,13 @@ class _TableDriver:
         self.dropped = frozenset(used - kept)
 
     def _run(self, key: tuple) -> tuple[tuple, int, int | None]:
-        """The run of one-child reductions the table prescribes with ``key[1]`` on top of
-        ``key[0]`` and lookahead ``key[2]``: (the value functions in order, the state
-        after them, the state the lookahead is then shifted to, or None). Such reductions pop one state and expose the same ``key[0]``, so
-        the run depends only on the key; it is read off the table once, on first use.
-        The callbacks still run on every parse: only the table walk is remembered."""
+        """The run of one-child reductions the table prescribes with state ``key[1]`` on
+        top of state ``key[0]`` and lookahead ``key[2]``: (the value functions in order,
+        the state after them, the state the lookahead is then shifted to or None).
+        Such reductions pop one state and expose the same ``key[0]``, so the run depends
+        only on the key; it is read off the table once, on first use, and kept in the
+        action tuple. The callbacks still run on every parse: only the table walk is
+        remembered."""
         below, state, typ = key
         funcs: list = []
         while True:
@@ -773,8 +775,10 @@ def _climb(ch: list) -> Any:
         return ch[0]
     if n == 3:  # `a op b`, the commonest chain: no stacks needed
         left, op, right = ch
-        typ = None if isinstance(op, _NODES) else op.type
-        if typ is not None and typ != "DOTS" and isinstance(left, _NODES) and isinstance(right, _NODES):
+        # an operator between two operands (our driver's tokens are _Tok: anything else,
+        # such as lark's own tokens, takes the general path below)
+        if op.__class__ is _Tok and left.__class__ is not _Tok and right.__class__ is not _Tok:
+            typ = op[0]
             ls, rs = left.span, right.span
             if ls == A.NO_SPAN:
                 span = rs
@@ -787,9 +791,9 @@ def _climb(ch: list) -> Any:
                     or not isinstance(right, A.Node) or id(right) in _DIRTY:
                 _DIRTY.add(id(node))
             return node
-    if n & 1 and n < 2 * MAX_DEPTH and isinstance(ch[0], _NODES):
-        for i in range(1, n, 2):
-            if isinstance(ch[i], _NODES) or ch[i].type == "DOTS" or not isinstance(ch[i + 1], _NODES):
+    if n & 1 and n < 2 * MAX_DEPTH and ch[0].__class__ is not _Tok:
+        for i in range(1, n, 2):  # (a lark token fails the first test: general path)
+            if ch[i].__class__ is not _Tok or ch[i][0] == "DOTS" or ch[i + 1].__class__ is _Tok:
                 break
         else:  # `a op b op c ...` without signs, dots or implicit products
             return _climb_plain(ch)
@@ -878,7 +882,7 @@ def _climb_plain(ch: list) -> Any:
     i = 1
     while True:
         if i < n:
-            typ = ch[i].type
+            typ = ch[i][0]  # a _Tok (checked by _climb)
             level = prec[typ]
         else:
             level = -1  # the end: apply everything
@@ -1401,6 +1405,15 @@ def parse_statement(text: str) -> A.Statement:
     return stmt
 
 
+def _check_standalone(text: str, standalone: set[str], applies: list) -> None:
+    """A function name used on its own (``floor + 1``) is an error, at the name."""
+    for n in standalone:
+        if len(n) > 2 and n not in _GREEK and n in ALIASES and n not in _CONSTANTS:
+            where = next((a for a in applies if a.name == n), None)
+            raise _PendingError(f"{n} is a function: it needs its argument, as in {n}(x)",
+                                where.span if where is not None else (text.find(n), text.find(n) + len(n)))
+
+
 def _check_depth(text: str, stmt: A.Statement) -> None:
     stack = [(stmt, 1)]
     while stack:
@@ -1476,6 +1489,9 @@ def _raw_walk(x: Any):
 
 
 class _Resolver:
+    __slots__ = ("text", "label_token", "segs", "note", "bound", "standalone", "applies", "applied",
+                 "bound_names", "sequences", "lhs_vars")
+
     def __init__(self, text: str, label: Any, segs: list[_Seg], note: str | None, info: Any):
         self.text = text
         self.label_token = label
@@ -1491,11 +1507,7 @@ class _Resolver:
         self.lhs_vars: set[str] = set()
         if info.applies:
             self._find_sequences()
-        for n in self.standalone:
-            if len(n) > 2 and n not in _GREEK and n in ALIASES and n not in _CONSTANTS:
-                where = next((a for a in info.applies if a.name == n), None)
-                raise _PendingError(f"{n} is a function: it needs its argument, as in {n}(x)",
-                                    where.span if where is not None else (text.find(n), text.find(n) + len(n)))
+        _check_standalone(text, self.standalone, info.applies)
 
     # -- which applied names are sequences (the defined one, unknown names)
     def _find_sequences(self) -> None:
@@ -1531,12 +1543,14 @@ class _Resolver:
         label = None
         if self.label_token is not None:
             label = "egf" if _t(self.label_token).lstrip()[:1] in "Ee" else "ogf"
-        if len(self.segs) == 1 and self.segs[0].kind == "seg" and not self.segs[0].tails:
-            # the common case, one clause and nothing after it (same result as below)
+        if len(self.segs) == 1:
             first = self.segs[0]
-            body = self.rel(first.rel, main=True)
-            span = (0, len(self.text.rstrip()) if self.note is None else _join(first)[1])
-            return _statement(body, label, (), (), self.note, span)
+            if first.kind == "seg" and not first.tails:
+                # the common case, one clause and nothing after it (same result as below)
+                body = self.rel(first.rel, True)
+                note = self.note
+                span = (0, len(self.text.rstrip()) if note is None else _join(first)[1])
+                return _statement(body, label, (), (), note, span)
         segs = []
         for seg in self.segs:  # `X with a(0)=1`: the initial value becomes its own clause
             if not seg.tails:

@@ -48,6 +48,7 @@ _COMPANY_TAIL = re.compile(r"(?:,?\s?(?:Inc\.|Ltd\.|Co\.|GmbH|S\.\s?A\.|and Co\.
 _IN_BEFORE = re.compile(r"\b[Ii]n:?\s*\Z")
 _TITLE_VOL = re.compile(r",\s*(?:[Vv]ol\.|[Vv]olume)\s*(?P<v>\d{1,4})\Z")
 _CONTAINER_VOL = re.compile(r"(?<=[a-zA-Z.'])\s+(?P<v>\d{1,4})\Z")
+_ABBREVIATED = re.compile(r"\b[A-Z][a-z]{0,7}\.\s")
 _NEEDS_CLEAN = re.compile(r"[\\{}~$*_\t\n]|\s\s|,,|\.\.")
 
 
@@ -297,8 +298,12 @@ def assemble(text: str, tokens: list[Token], labels: list[str], marg: list[float
         end = tokens[best.last].end
         if field in _KEEP_DOT_FIELDS and text[end:end + 1] == "." and not value.endswith("."):
             last = value.rsplit(" ", 1)[-1]
-            if len(last) <= 5 and last[:1].isupper() or (last.lower() + ".") in lx.JOURNAL_WORDS:
-                value += "."   # the abbreviation's period was labeled as punctuation
+            if len(last) <= 5 and last[:1].isupper() or (last.lower() + ".") in lx.JOURNAL_WORDS \
+                    or (_ABBREVIATED.search(value) and last.isalpha() and last[:1].isupper()):
+                # the abbreviation's period was labeled as punctuation; in a
+                # name abbreviated elsewhere ("Comment. Math. Univ. Carolin.")
+                # the last word is abbreviated too -- keep the period as typed
+                value += "."
         if field == "publisher":
             # company suffixes the labeler tends to leave out: ", Inc.", "and Co."
             m = _COMPANY_TAIL.match(text, tokens[best.last].end)
@@ -432,7 +437,7 @@ def assemble(text: str, tokens: list[Token], labels: list[str], marg: list[float
         values["date"] = Date(literal=found["unpub"])
 
     kind = _kind(text, values, idents, found)
-    rec_conf = _record_confidence(values, infos, seq_prob, penalty, kind, etal)
+    rec_conf = calibrated(_record_confidence(values, infos, seq_prob, penalty, kind, etal))
     prov = Provenance(raw=text, fields=tuple(infos), confidence=round(rec_conf, 4))
     extra: tuple[tuple[str, str], ...] = (("et-al", "true"),) if etal else ()
     return Reference(
@@ -516,3 +521,40 @@ def _record_confidence(v: dict, infos: list[FieldInfo], seq_prob: float, penalty
 
 
 _ID_FIELDS = frozenset(("doi", "arxiv", "mr", "zbl", "isbn", "issn", "url", "handle"))
+
+
+# --- calibration -------------------------------------------------------------
+# The raw record confidence is a product of field marginals and penalties; a
+# monotone map fitted on held-out *synthetic* lines (scripts/calibrate_refs.py,
+# normform/data/refs-calibration.json) turns it into "share of records this
+# confident that are exactly right".  No map file: identity.
+CALIBRATE = True
+
+
+@lru_cache(maxsize=1)
+def _calibration_knots() -> tuple[tuple[float, ...], tuple[float, ...]] | None:
+    import json
+
+    from normform.resources import data_path
+    try:
+        with open(data_path("refs-calibration.json"), encoding="utf-8") as fh:
+            data = json.load(fh)
+        xs, ys = tuple(float(x) for x in data["raw"]), tuple(float(y) for y in data["calibrated"])
+    except (OSError, ValueError, KeyError):
+        return None
+    return (xs, ys) if len(xs) == len(ys) and len(xs) >= 2 else None
+
+
+def calibrated(raw: float) -> float:
+    knots = _calibration_knots() if CALIBRATE else None
+    if knots is None:
+        return raw
+    from bisect import bisect_right
+    xs, ys = knots
+    if raw <= xs[0]:
+        return ys[0] * (raw / xs[0]) if xs[0] > 0 else ys[0]
+    if raw >= xs[-1]:
+        return ys[-1]
+    k = bisect_right(xs, raw)
+    x0, x1, y0, y1 = xs[k - 1], xs[k], ys[k - 1], ys[k]
+    return y0 + (y1 - y0) * (raw - x0) / (x1 - x0) if x1 > x0 else y1

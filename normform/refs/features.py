@@ -48,6 +48,7 @@ def set_known(attrs: frozenset[str] | None) -> None:
     KNOWN = attrs
     token_features.cache_clear()
     _context_strings.cache_clear()
+    _token_parts.cache_clear()
 
 
 @lru_cache(maxsize=200_000)
@@ -130,6 +131,14 @@ _CLOSE = ")]}"
 _QUOTES = "\"“”«»„"
 
 
+@lru_cache(maxsize=200_000)
+def _token_parts(text: str, kind: str) -> tuple[tuple[str, ...], tuple[str, ...], str, tuple[str, ...], str]:
+    """Everything a token contributes that depends only on (text, kind):
+    its own features, and what it gives its neighbours (one cache lookup)."""
+    prev, w2p, nxt, w2n = _context_strings(text if len(text) < 20 else kind, kind)
+    return token_features(text, kind), prev, w2p, nxt, w2n
+
+
 def _sentence_dot(tokens: list[Token], i: int) -> bool:
     """Does the period at ``i`` end a sentence-like block rather than an
     abbreviation ("Math.", "J.") or an initial?"""
@@ -148,16 +157,20 @@ def _sentence_dot(tokens: list[Token], i: int) -> bool:
 _SEGLEN_BUCKET = (0, 1, 2, 3, 4, 4, 5, 5, 5, 6)
 _LOW_OK = frozenset(("and", "et", "al", "van", "der", "den", "de", "la", "le", "du", "des", "di", "da", "von",
                      "dos", "del", "ter", "ten", "zu", "y", "und"))
+_SEG_PUNCT = frozenset(",;:()")
+_WORDISH = frozenset(("word", "num", "initial"))
 
 
-def _segments(tokens: list[Token]) -> tuple[list[int], list[bool], list[int]]:
+def _segments(tokens: list[Token]) -> tuple[list[int], list[bool], list[int], list[bool]]:
     """Per token: length bucket of its segment (words between , ; : or a
     sentence period), whether the segment holds a lower-case word (names
-    almost never do, titles almost always), and the segment's index."""
+    almost never do, titles almost always), the segment's index, and whether
+    the token is a sentence period (computed once, reused by the caller)."""
     n = len(tokens)
     seg_len = [0] * n
     seg_low = [False] * n
     seg_idx = [0] * n
+    sdot = [False] * n
     start = 0
     idx = 0
     words = 0
@@ -167,52 +180,64 @@ def _segments(tokens: list[Token]) -> tuple[list[int], list[bool], list[int]]:
         if not boundary:
             tok = tokens[i]
             k = tok.kind
-            if k == "punct" and (tok.text in ",;:()" or tok.text == "." and i > 0 and _sentence_dot(tokens, i)):
-                boundary = True
-            elif k in ("word", "num", "initial"):
+            if k == "punct":
+                t = tok.text
+                if t in _SEG_PUNCT:
+                    boundary = True
+                elif t == "." and i > 0 and _sentence_dot(tokens, i):
+                    boundary = sdot[i] = True
+            elif k in _WORDISH:
                 words += 1
                 if k == "word" and tok.text[0].islower() and tok.text not in _LOW_OK:
                     low = True
         if boundary:
             b = _SEGLEN_BUCKET[words] if words < 10 else 7
-            for j in range(start, i + 1 if i < n else n):
-                seg_len[j] = b
-                seg_low[j] = low
-                seg_idx[j] = idx if idx < 8 else 8
+            end = i + 1 if i < n else n
+            seg_len[start:end] = [b] * (end - start)
+            if low:
+                seg_low[start:end] = [True] * (end - start)
+            if idx:
+                seg_idx[start:end] = [idx if idx < 8 else 8] * (end - start)
             start = i + 1
             if words:
                 idx += 1
             words = 0
             low = False
-    return seg_len, seg_low, seg_idx
+    return seg_len, seg_low, seg_idx, sdot
 
 
 def sequence_features(tokens: list[Token], text: str) -> list[list[str]]:
-    """Feature lists, one per token (the crfsuite ItemSequence input)."""
+    """Feature lists, one per token (the crfsuite ItemSequence input).
+
+    The attributes and their order are fixed (the model was trained on
+    them); this loop only avoids repeated work: one cache lookup per token,
+    sentence periods found once, constant strings preallocated."""
     n = len(tokens)
     out: list[list[str]] = []
-    static = [token_features(t.text, t.kind) for t in tokens]
-    ctx = [_context_strings(t.text if len(t.text) < 20 else t.kind, t.kind) for t in tokens]
+    if not n:
+        return out
+    parts = [_token_parts(t.text, t.kind) for t in tokens]
     depth = 0
     in_quote = False
     periods = 0      # sentence-like separators seen so far (". " after a non-initial)
     commas = 0
     seen_year = False
     seen_in = False
-    seg_len, seg_low, seg_idx = _segments(tokens)
+    seg_len, seg_low, seg_idx, sdot = _segments(tokens)
     tlen = len(text)
-    for i, tok in enumerate(tokens):
-        f = list(static[i])
-        f.append(_POS[i * 10 // n])
-        f.append(_SL[seg_len[i]])
-        f.append(_SI[seg_idx[i]])
+    last = n - 1
+    append = out.append
+    year_match = _YEAR.match
+    for i in range(n):
+        tok = tokens[i]
+        f = [*parts[i][0], _POS[i * 10 // n], _SL[seg_len[i]], _SI[seg_idx[i]]]
         if seg_low[i]:
             f.append("slow")
         f.append(_PER[periods if periods < 5 else 5])
         f.append(_COM[commas if commas < 6 else 6])
         if i == 0:
             f.append("BOS")
-        if i == n - 1:
+        if i == last:
             f.append("EOS")
         if depth:
             f.append("inpar")
@@ -229,21 +254,26 @@ def sequence_features(tokens: list[Token], text: str) -> list[list[str]]:
         if en < tlen and text[en] == " ":
             f.append("spa")
         if i > 0:
-            f += ctx[i - 1][0]
-            if i > 1 and ctx[i - 2][1]:
-                f.append(ctx[i - 2][1])
+            f += parts[i - 1][1]
+            if i > 1:
+                w = parts[i - 2][2]
+                if w:
+                    f.append(w)
         else:
             f.append("w-1=^")
-        if i + 1 < n:
-            f += ctx[i + 1][2]
-            if i + 2 < n and ctx[i + 2][3]:
-                f.append(ctx[i + 2][3])
+        if i < last:
+            f += parts[i + 1][3]
+            if i + 1 < last:
+                w = parts[i + 2][4]
+                if w:
+                    f.append(w)
         else:
             f.append("w+1=$")
-        out.append(f)
+        append(f)
         # update state after the token
         t = tok.text
-        if tok.kind == "punct":
+        kind = tok.kind
+        if kind == "punct":
             if t in _OPEN:
                 depth += 1
             elif t in _CLOSE and depth:
@@ -255,11 +285,11 @@ def sequence_features(tokens: list[Token], text: str) -> list[list[str]]:
                     in_quote = False
                 else:
                     in_quote = not in_quote
-            elif t == "," :
+            elif t == ",":
                 commas += 1
-            elif t == ":" or t == "." and i > 0 and _sentence_dot(tokens, i):
+            elif t == ":" or sdot[i]:
                 periods += 1
-        elif tok.kind == "num" and _YEAR.match(t):
+        elif kind == "num" and year_match(t):
             seen_year = True
         elif t == "In" or t == "in" and i > 0 and tokens[i - 1].text in ".,":
             seen_in = True

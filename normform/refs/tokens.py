@@ -44,8 +44,10 @@ def _plain(text: str, lo: int, hi: int, out: list[Token], limit: int) -> None:
     if room <= 0:
         return
     append = out.append
+    make = Token._make   # tuple.__new__ directly: skips the NamedTuple __new__ wrapper
     for m in _TOKEN_RE.finditer(text, lo, hi):
-        append(Token(m.group(), m.start(), m.end(), m.lastgroup))
+        s, e = m.span()
+        append(make((m.group(), s, e, m.lastgroup, None)))
         room -= 1
         if not room:
             return
