@@ -208,6 +208,14 @@ def _title(r: random.Random) -> str:
         f"Structures de {r.choice(_FIELDS)}", f"{en.capitalize()} de {a} {en}",
     )
     t = r.choice(forms)
+    if r.random() < 0.06:
+        # one-word head and a subtitle ("Convexity: an analytic viewpoint"), a
+        # shape that reads like "Family, Given" right after the authors
+        head = r.choice(("Convexity", "Algebra", "Topology", "Combinatorics", "Categories", "Integration",
+                         "Sheaves", "Partitions", "Matroids", "Tilings", "Polytopes", "Semigroups", "Frames",
+                         "Forcing", nm, r.choice(_EXTRA_NOUNS).capitalize()))
+        t = f"{head}{r.choice((': ', ': ', '. ', ' - '))}{r.choice(('an', 'a', 'the', 'An', 'A', 'The'))} " \
+            f"{r.choice((a, 'analytic', 'modern', 'combinatorial', 'categorical'))} {r.choice(('viewpoint', 'approach', 'introduction', 'way', 'perspective', 'survey', 'primer'))}"
     if r.random() < 0.2:
         t += r.choice((": ", ". ", ", ", " -- ")) + r.choice(
             (f"{a} methods", f"a {a} approach", f"the case of {o}", "part I", "the general case",

@@ -260,6 +260,7 @@ class _TableDriver:
         self.actions: list[dict[str, Any]] = [{} for _ in range(n)]
         self.gotos: list[dict[str, int]] = [{} for _ in range(n)]
         self.expected: list[set[str]] = [set() for _ in range(n)]
+        reductions: dict = {}
         for state, row in table.states.items():
             acts, gotos = self.actions[state], self.gotos[state]
             for sym, (action, arg) in row.items():
@@ -269,7 +270,10 @@ class _TableDriver:
                 if action is Shift:
                     (acts if terminal or sym == "$END" else gotos)[sym] = arg
                 else:  # (kind, size, rule name, callback, extra, {state below: run})
-                    acts[sym] = _reduction(arg, larkp.options.transformer, callbacks[arg]) + ({},)
+                    red = reductions.get(id(arg))  # (one per rule: many actions share a rule)
+                    if red is None:
+                        red = reductions[id(arg)] = _reduction(arg, larkp.options.transformer, callbacks[arg])
+                    acts[sym] = red + ({},)
         self.start = table.start_states["start"]
         self.end = table.end_states["start"]
         lexer = larkp.parser.lexer
@@ -296,9 +300,10 @@ class _TableDriver:
         if joined != mres[0].pattern:
             raise ValueError("unexpected lexer pattern")
         self.firsts = [_first_chars(rx, self.flags) for _, rx, _ in self.terms]
+        # filled on first sight of each character (parse() calls _bucket): building all
+        # of printable ASCII up front compiled ~100 patterns at start-up
         self.dispatch: dict[str, Any] = {}
-        for c in "".join(chr(i) for i in range(32, 127)) + "\t\n":
-            self._bucket(c)
+        self._bucket(" ")
         # terminals that no callback ever sees: filtered out wherever a rule uses them
         kept: set[str] = set()
         used: set[str] = set()
@@ -345,8 +350,17 @@ class _TableDriver:
                 del funcs[i:i + 2]
             else:
                 i += 1
+        # the commonest runs become one callable (the driver calls it without a loop)
+        builder = self.lark.options.transformer
+        fused = {builder.integer_t: builder.integer_t_list, builder.name_t: builder.name_t_list}
+        if len(funcs) == 1 and funcs[0] is not None:
+            funcs = funcs[0]
+        elif len(funcs) == 2 and funcs[1] is None and funcs[0] in fused:
+            funcs = fused[funcs[0]]
+        else:
+            funcs = tuple(funcs)
         after = self.actions[state].get(typ)
-        return (tuple(funcs), state, after if after.__class__ is int else None)
+        return (funcs, state, after if after.__class__ is int else None)
 
     def _bucket(self, c: str) -> Any:
         """What to do at character ``c``: a terminal name (a one-character token that no
@@ -456,10 +470,14 @@ class _TableDriver:
                     run = act[5].get(below)
                     if run is None:  # (the action fixes the state and the lookahead)
                         run = act[5][below] = run_of((below, stack[-1], typ))
-                    value = stack[-2]
-                    for f in run[0]:
-                        value = [value] if f is None else f(value)
-                    stack[-2] = value
+                    funcs = run[0]
+                    if funcs.__class__ is tuple:
+                        value = stack[-2]
+                        for f in funcs:
+                            value = [value] if f is None else f(value)
+                        stack[-2] = value
+                    else:  # one callable
+                        value = stack[-2] = funcs(stack[-2])
                     state = stack[-1] = run[1]
                     if state == accept and typ == "$END":
                         return value
@@ -743,7 +761,26 @@ def _statement(body: Any, label: str | None, conditions: tuple, initial: tuple, 
 _SUPERSCRIPTS = str.maketrans("⁰¹²³⁴⁵⁶⁷⁸⁹", "0123456789")
 _PROD_WORDS = {"prod", "Prod", "Product", "product", "∏"}
 
-from lark import Transformer as _LarkTransformer  # noqa: E402  (lark is imported lazily via this module)
+
+def _import_lark():
+    """Import lark without the third-party ``regex`` module: lark loads it (15-50 ms of
+    start-up) only to serve ``Lark(regex=True)`` and ``\\p{...}`` patterns, which no grammar
+    of ours uses (they all compile with ``re``). Hidden only while lark itself loads, and
+    only when nothing has imported ``regex`` already."""
+    import sys
+
+    if "lark" in sys.modules or "regex" in sys.modules:
+        import lark
+        return lark
+    sys.modules["regex"] = None  # type: ignore[assignment]  (import regex -> ImportError)
+    try:
+        import lark
+    finally:
+        del sys.modules["regex"]
+    return lark
+
+
+_LarkTransformer = _import_lark().Transformer  # (lark is imported lazily via this module)
 
 
 # Precedence table of the flat arithmetic chain (see grammars/formula.lark, rule `expr`).
@@ -1079,6 +1116,18 @@ class _Build(_LarkTransformer):
         d["span"] = tok[2:]
         return o
 
+    # integer_t / name_t and then the wrap of a one-item chain: one call instead of two
+    # steps (the commonest runs of one-child reductions, see _TableDriver._run)
+    def integer_t_list(self, tok):
+        o = _new(A.Integer)
+        d = o.__dict__
+        d["value"] = int(tok[1])
+        d["span"] = tok[2:]
+        return [o]
+
+    def name_t_list(self, tok):
+        return [self.name_t(tok)]
+
     def name_t(self, tok):
         name = tok[1]
         self.standalone.add(name)
@@ -1396,6 +1445,23 @@ def parse_statement(text: str) -> A.Statement:
         raise _driver_error(text, exc) from None
     except LarkError as exc:
         raise _lark_error(text, exc) from None
+    if not _DIRTY and not _builder.applies and label is None and note is None and len(segs) == 1:
+        # Nothing to resolve (no placeholder anywhere, no application): the resolver would
+        # return the built tree as it is, so skip building it (same result, see _Resolver).
+        first = segs[0]
+        if first.kind == "seg" and not first.tails:
+            raw = first.rel
+            if raw.modulus is None and all(isinstance(o, A.Node) for o in raw.operands):
+                if _builder.standalone:
+                    try:
+                        _check_standalone(text, _builder.standalone, ())
+                    except _PendingError as exc:
+                        _fail(text, exc.span[0], exc.message)
+                body = _relation(raw.ops, raw.operands, None, raw.span) if raw.ops else raw.operands[0]
+                stmt = _statement(body, None, (), (), None, (0, len(text.rstrip())))
+                if 2 * len(text) + 3 > MAX_DEPTH:
+                    _check_depth(text, stmt)
+                return stmt
     try:
         stmt = _Resolver(text, label, segs, note, _builder).statement()
     except _PendingError as exc:

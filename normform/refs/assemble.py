@@ -45,6 +45,7 @@ def _latex():
 
 
 _COMPANY_TAIL = re.compile(r"(?:,?\s?(?:Inc\.|Ltd\.|Co\.|GmbH|S\.\s?A\.|and Co\.|& Co\.|& Cie|Corp\.|LLC|KG))+")
+_ACRONYM_TAIL = re.compile(r" \([A-Z][A-Za-z]{1,7}\)(?=[,.;]|\Z)")
 _IN_BEFORE = re.compile(r"\b[Ii]n:?\s*\Z")
 _TITLE_VOL = re.compile(r",\s*(?:[Vv]ol\.|[Vv]olume)\s*(?P<v>\d{1,4})\Z")
 _CONTAINER_VOL = re.compile(r"(?<=[a-zA-Z.'])\s+(?P<v>\d{1,4})\Z")
@@ -210,6 +211,44 @@ def _repair_missing_publisher(tokens: list[Token], labels: list[str]) -> None:
             i += 1
 
 
+_SERIES_TAIL = re.compile(r"(?:,|\.)\s+((?:[A-Z][\w'-]*\.?|of|in|and|for|der|de|des|the)"
+                          r"(?:\s+(?:[A-Z][\w'-]*\.?|of|in|and|for|der|de|des|the)){0,7})\Z")
+
+
+def _series_tail(title: str, runs: dict) -> str | None:
+    """A book title that swallowed the series printed after it ("Finite
+    permutation groups, Academic Paperbacks" before the publisher): the
+    capitalised tail after the last comma or period with a series word."""
+    if "series" in runs or "publisher" not in runs or "container_title" in runs:
+        return None
+    m = _SERIES_TAIL.search(title)
+    if not m or m.start() < 8:
+        return None
+    words = m.group(1).split()
+    if len(words) < 2 or not any(w.lower() in lx.SERIES_WORDS for w in words):
+        return None
+    return title[m.start():]
+
+
+def _name_shape_factor(names) -> float:
+    """Name lists of uneven shape are often mis-split ("Brandt, Stephan,
+    Note: ..." read as three names; "Barry Simon, Convexity" read as family
+    "Barry Simon"): some names with given names and some without, or a
+    two-word family name with no particle.  Doubt, do not repair."""
+    persons = [n for n in names if not n.is_literal]
+    if not persons:
+        return 1.0
+    factor = 1.0
+    with_given = sum(1 for n in persons if n.given)
+    if 0 < with_given < len(persons):
+        factor *= 0.7
+    elif with_given == 0 and len(persons) >= 2:
+        factor *= 0.8    # bare family names only: the commas may have been read wrongly
+    if any(n.family and " " in n.family.strip() and not n.particle for n in persons):
+        factor *= 0.85
+    return factor
+
+
 def _leftover_penalty(tokens: list[Token], labels: list[str]) -> float:
     """Content words the labeler could not place anywhere lower the record
     confidence: something in the line is not understood."""
@@ -280,6 +319,7 @@ def assemble(text: str, tokens: list[Token], labels: list[str], marg: list[float
             # an author list full of lower-case words ate the title
             conf *= 0.5
             penalty *= 0.6
+        conf *= _name_shape_factor(names)
         values[field] = names
         infos.append(FieldInfo(field, round(conf, 4), Span(tokens[best.first].start, tokens[last.last].end)))
 
@@ -309,8 +349,27 @@ def assemble(text: str, tokens: list[Token], labels: list[str], marg: list[float
             m = _COMPANY_TAIL.match(text, tokens[best.last].end)
             if m:
                 value = value + m.group().rstrip(",; ")
+            else:
+                # a place or an acronym printed inside the publisher string, with
+                # no separator ("Springer-Verlag Berlin", "Society (AMS)"), is
+                # part of the name as typed
+                m = _ACRONYM_TAIL.match(text, tokens[best.last].end)
+                if m:
+                    value = value + m.group()
+                else:
+                    glued = next((pr for pr in runs.get("place", ()) if pr.first == best.last + 1
+                                  and not text[tokens[best.last].end:tokens[pr.first].start].strip()), None)
+                    if glued is not None:
+                        value = value + " " + clean_text(raw(glued)).rstrip(" ,.;")
+                        runs["place"] = [pr for pr in runs["place"] if pr is not glued]
+                        values.pop("place", None)
         if field == "title":
             value = value.rstrip(".")
+            tail = _series_tail(value, runs)
+            if tail:
+                value = value[: -len(tail)].rstrip(" ,.")
+                values["series"] = tail.strip(" ,.")
+                infos.append(FieldInfo("series", round(best.conf * 0.8, 4), None))
         if not value:
             continue
         values[field] = value

@@ -126,6 +126,12 @@ _SI = tuple("si=%d" % k for k in range(10))
 _PER = tuple("per=%d" % k for k in range(6))
 _COM = tuple("com=%d" % k for k in range(7))
 
+# "slow", period and comma buckets, in the model's attribute order
+_MID = tuple(tuple(tuple((("slow",) if slow else ()) + (_PER[p], _COM[c]) for c in range(7)) for p in range(6))
+             for slow in (False, True))
+_FLAG_NAMES = ("BOS", "EOS", "inpar", "inq", "afteryear", "afterin", "spb", "spa")
+_FLAGS = tuple(tuple(name for b, name in enumerate(_FLAG_NAMES) if mask >> b & 1) for mask in range(256))
+
 _OPEN = "([{"
 _CLOSE = ")]}"
 _QUOTES = "\"“”«»„"
@@ -230,29 +236,12 @@ def sequence_features(tokens: list[Token], text: str) -> list[list[str]]:
     year_match = _YEAR.match
     for i in range(n):
         tok = tokens[i]
-        f = [*parts[i][0], _POS[i * 10 // n], _SL[seg_len[i]], _SI[seg_idx[i]]]
-        if seg_low[i]:
-            f.append("slow")
-        f.append(_PER[periods if periods < 5 else 5])
-        f.append(_COM[commas if commas < 6 else 6])
-        if i == 0:
-            f.append("BOS")
-        if i == last:
-            f.append("EOS")
-        if depth:
-            f.append("inpar")
-        if in_quote:
-            f.append("inq")
-        if seen_year:
-            f.append("afteryear")
-        if seen_in:
-            f.append("afterin")
-        # whitespace before/after
         st, en = tok.start, tok.end
-        if st > 0 and text[st - 1] == " ":
-            f.append("spb")
-        if en < tlen and text[en] == " ":
-            f.append("spa")
+        # the flags, as one bit mask into a table of preallocated tuples
+        bits = (i == 0) | (i == last) << 1 | (depth > 0) << 2 | in_quote << 3 | seen_year << 4 \
+            | seen_in << 5 | (st > 0 and text[st - 1] == " ") << 6 | (en < tlen and text[en] == " ") << 7
+        f = [*parts[i][0], _POS[i * 10 // n], _SL[seg_len[i]], _SI[seg_idx[i]],
+             *_MID[seg_low[i]][periods if periods < 5 else 5][commas if commas < 6 else 6], *_FLAGS[bits]]
         if i > 0:
             f += parts[i - 1][1]
             if i > 1:

@@ -9,20 +9,51 @@ rejects returns ``None`` and the caller keeps the raw text.
 
 from __future__ import annotations
 
+import os
 import re
 from functools import lru_cache
-
-from lark import Lark, Token as LarkToken, Tree
-from lark.exceptions import LarkError
 
 from normform.model import Date, Pages
 from normform.refs import lexicon as lx
 from normform.resources import grammar_text
 
 
+# lark is imported at the first grammar use: most strings take the regex
+# fast paths below, and importing lark costs ~0.1 s of start-up.
+Tree = LarkToken = None
+_LarkError: type[Exception] = Exception
+
+
+def _cache_file(name: str) -> str | bool:
+    """Where lark keeps the analysed grammar between runs (a per-user cache
+    directory, not the shared temp dir: the cache is a pickle).  Building
+    the LALR tables is most of the cold-start cost; lark checks the grammar
+    hash stored in the file, so an edited grammar rebuilds."""
+    base = os.environ.get("XDG_CACHE_HOME") or os.path.join(os.path.expanduser("~"), ".cache")
+    folder = os.path.join(base, "normform")
+    try:
+        os.makedirs(folder, exist_ok=True)
+    except OSError:
+        return False
+    return os.path.join(folder, f"lark-{name}.cache")
+
+
 @lru_cache(maxsize=None)
-def _parser(name: str) -> Lark:
-    return Lark(grammar_text(name), parser="lalr", lexer="contextual")
+def _parser(name: str):
+    global Tree, LarkToken, _LarkError
+    from lark import Lark, Token, Tree as LarkTree
+    from lark.exceptions import LarkError
+    Tree, LarkToken, _LarkError = LarkTree, Token, LarkError
+    return Lark(grammar_text(name), parser="lalr", lexer="contextual", cache=_cache_file(name))
+
+
+def _parse(name: str, text: str):
+    """The parse tree, or None when the grammar rejects ``text``."""
+    parser = _parser(name)
+    try:
+        return parser.parse(text)
+    except _LarkError:
+        return None
 
 
 def _page_text(tree) -> str:
@@ -56,9 +87,8 @@ def parse_pages(text: str) -> Pages | None:
         return Pages(first=m.group(1), last=expand_range(m.group(1), m.group(2)))
     if _SIMPLE_NUM.match(text):
         return Pages(first=text)
-    try:
-        tree = _parser("refs-pages.lark").parse(text)
-    except LarkError:
+    tree = _parse("refs-pages.lark", text)
+    if tree is None:
         return None
     body = tree
     if isinstance(tree, Tree) and tree.data == "start":
@@ -89,9 +119,8 @@ def parse_volume(text: str) -> tuple[str | None, str | None] | None:
     m = _SIMPLE_VOL.match(text)
     if m:
         return m.group(1), m.group(2)
-    try:
-        tree = _parser("refs-volume.lark").parse(text)
-    except LarkError:
+    tree = _parse("refs-volume.lark", text)
+    if tree is None:
         return None
     vol = iss = None
     for sub in tree.iter_subtrees():
@@ -113,9 +142,8 @@ def parse_date(text: str) -> Date | None:
     m = _SIMPLE_YEAR.match(text)
     if m:
         return Date(year=int(m.group(1)))
-    try:
-        tree = _parser("refs-dates.lark").parse(text)
-    except LarkError:
+    tree = _parse("refs-dates.lark", text)
+    if tree is None:
         return None
     year = month = day = None
     season = literal = None
