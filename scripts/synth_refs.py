@@ -208,6 +208,12 @@ def _title(r: random.Random) -> str:
         f"Structures de {r.choice(_FIELDS)}", f"{en.capitalize()} de {a} {en}",
     )
     t = r.choice(forms)
+    if r.random() < 0.07:
+        # short book titles ("Algebra", "Measure theory", "Geometry I"): after a
+        # full name and a period they are easily read as one more name
+        t = r.choice((fld.capitalize(), fld.split()[-1].capitalize(), f"{fld.capitalize()} {r.choice(('I', 'II', '1', '2'))}",
+                      r.choice(_EXTRA_NOUNS).capitalize(), f"{nm} {r.choice(_EXTRA_NOUNS)}"))
+        return _title_case(t) if r.random() < 0.3 else t
     if r.random() < 0.06:
         # one-word head and a subtitle ("Convexity: an analytic viewpoint"), a
         # shape that reads like "Family, Given" right after the authors

@@ -90,18 +90,17 @@ def _copy(handle, path: Path) -> None:
 
 
 def _cluster_sections(handle, clusters: Path, row_limit: int) -> dict[int, int]:
-    """Write one section per cluster; return record number -> cluster number (for table rows)."""
+    """Write one section per cluster from the digest; return record number -> cluster (table rows)."""
     where: dict[int, int] = {}
     if not clusters.exists():
         return where
     with open(clusters, encoding="utf-8") as src:
         for line in src:
-            cluster = json.loads(line)
+            cluster = json.loads(line)     # a digest: first members only, "linked" table rows
             n = cluster["cluster"]
+            for seq in cluster["linked"]:
+                where[seq] = n
             if n > CLUSTER_LIMIT:
-                for m in cluster["members"]:
-                    if m["seq"] <= row_limit:
-                        where[m["seq"]] = n
                 continue
             canon = cluster["canonical"]
             handle.write(f'<section class="cluster" id="c{n}" aria-labelledby="c{n}-h">'
@@ -109,11 +108,7 @@ def _cluster_sections(handle, clusters: Path, row_limit: int) -> dict[int, int]:
                          f'<p class="canon"><span class="tag">canonical</span> {escape(canon["house"])}</p>'
                          '<table><thead><tr><th scope="col">origin</th><th scope="col">as typed</th>'
                          '<th scope="col">cleaned</th><th scope="col">confidence</th></tr></thead><tbody>')
-            for i, m in enumerate(cluster["members"]):
-                if m["seq"] <= row_limit:
-                    where[m["seq"]] = n
-                if i >= MEMBER_LIMIT:
-                    continue
+            for m in cluster["members"][:MEMBER_LIMIT]:
                 left, right = diff_html(m["text"], m["house"])
                 conf = "–" if m["confidence"] is None else f'{m["confidence"]:.2f}'
                 origin = f'{m["file"]}:{m["line"]}' if m["line"] is not None else m["file"]

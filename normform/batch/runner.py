@@ -204,20 +204,30 @@ def _finish(store: Store, paths: list[Path], read: inputs.ReadStats, refs: int, 
 
     clustered = 0
     cluster_tmp = work / "clusters.part"
-    with open(cluster_tmp, "w", encoding="utf-8") as handle:
+    # A small digest of each cluster for the report (the full lines can be huge).
+    digest_tmp = work / "clusters-digest.part"
+    with open(cluster_tmp, "w", encoding="utf-8") as handle, \
+            open(digest_tmp, "w", encoding="utf-8") as digest:
         for number, group in enumerate(groups, start=1):
             clustered += len(group)
             best = member(clustering.canonical(db, group))
             canon = {k: best[k] for k in ("id", "seq", "origin", "text", "house", "csl")}
             # written member by member (keys in dumps' sorted order): a huge cluster stays out of memory
             handle.write(f'{{"canonical":{dumps(canon)},"cluster":{number},"members":[')
+            shown = []
             for i, seq in enumerate(group):
                 rec = member(seq)
-                handle.write(("," if i else "") + dumps(
-                    {"id": rec["id"], "seq": seq, "file": rec["origin"]["file"],
-                     "line": rec["origin"]["line"], "entry": rec["origin"]["entry"],
-                     "text": rec["text"], "house": rec["house"], "confidence": rec["confidence"]}))
+                entry = {"id": rec["id"], "seq": seq, "file": rec["origin"]["file"],
+                         "line": rec["origin"]["line"], "entry": rec["origin"]["entry"],
+                         "text": rec["text"], "house": rec["house"], "confidence": rec["confidence"]}
+                handle.write(("," if i else "") + dumps(entry))
+                if i < report.MEMBER_LIMIT and number <= report.CLUSTER_LIMIT:
+                    shown.append(entry)
             handle.write(f'],"size":{len(group)}}}\n')
+            digest.write(dumps({"cluster": number, "size": len(group),
+                                "canonical": {"seq": canon["seq"], "house": canon["house"]},
+                                "members": shown,
+                                "linked": [seq for seq in group if seq <= settings.report_rows]}) + "\n")
 
     store.close_reader()
     lines_in = read.lines
@@ -232,7 +242,8 @@ def _finish(store: Store, paths: list[Path], read: inputs.ReadStats, refs: int, 
     summary["invalid_utf8"] = [{"file": f, "line": ln, "byte_offset": off} for f, ln, off in read.invalid_utf8]
     report_tmp = work / "report.part"
     report.write(report_tmp, summary, rows=store.part("rows"), formulas=store.part("formulas"),
-                 clusters=cluster_tmp, row_limit=settings.report_rows)
+                 clusters=digest_tmp, row_limit=settings.report_rows)
+    digest_tmp.unlink()
     # timing last: clustering and the report are part of the run
     finish = time.monotonic() - finish_started
     summary["run"] = stats.run_block(totals["records"], seconds + finish, finish)

@@ -763,20 +763,13 @@ _PROD_WORDS = {"prod", "Prod", "Product", "product", "∏"}
 
 
 def _import_lark():
-    """Import lark without the third-party ``regex`` module: lark loads it (15-50 ms of
-    start-up) only to serve ``Lark(regex=True)`` and ``\\p{...}`` patterns, which no grammar
-    of ours uses (they all compile with ``re``). Hidden only while lark itself loads, and
-    only when nothing has imported ``regex`` already."""
-    import sys
+    """Import lark on first use of the formula parser (not at ``import normform``).
 
-    if "lark" in sys.modules or "regex" in sys.modules:
-        import lark
-        return lark
-    sys.modules["regex"] = None  # type: ignore[assignment]  (import regex -> ImportError)
-    try:
-        import lark
-    finally:
-        del sys.modules["regex"]
+    We do not hide the optional ``regex`` module from lark to save start-up
+    time: that would break ``Lark(regex=True)`` for any other code in the process.
+    """
+    import lark
+
     return lark
 
 
