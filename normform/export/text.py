@@ -1,7 +1,7 @@
 """Plain text: the catalogue's compact house style, or any CSL style by name.
 
 House style (designed for one-line catalogue references; examples in
-docs/readme-foundation.md):
+docs/io.md):
 
     A. Quill and B. L. van der Feather, On the Riemann hypothesis, Quillfeather Soc. Bull. 12:3 (2001), 1-20. doi:10.1000/182; MR1234567
 
