@@ -19,7 +19,10 @@ from batch_helpers import FAKE, outputs, records, write_lines  # noqa: E402
 
 from normform.batch.runner import CleanError, clean  # noqa: E402
 
-SCRIPT = ("import sys; from normform.batch import command; "
+# The child restores Python's Ctrl-C handler: CI may start the suite with SIGINT
+# ignored (a background job), and an ignored signal stays ignored across exec.
+SCRIPT = ("import signal, sys; signal.signal(signal.SIGINT, signal.default_int_handler); "
+          "from normform.batch import command; "
           f"sys.exit(command.main(sys.argv[1:], toolkit={FAKE!r}))")
 
 
