@@ -27,12 +27,13 @@ def test_ascii_latex_mathml(capsys, monkeypatch):
 def test_json_lines_from_stdin(capsys, monkeypatch):
     code, out, _ = run(capsys, monkeypatch, ["--to", "json"], stdin="2^n - 1\n\na(n) = (n+1\n")
     rows = [json.loads(line) for line in out.splitlines()]
-    assert code == 1 and len(rows) == 2
+    assert code == 1 and len(rows) == 3  # the blank line keeps its place
     assert rows[0]["ok"] and rows[0]["kind"] == "expression" and rows[0]["ascii"] == "2^n - 1"
-    assert set(rows[0]) >= {"input", "ok", "kind", "ascii", "latex", "mathml"}
-    assert rows[1]["ok"] is False
-    assert rows[1]["error"]["line"] == 3 and rows[1]["error"]["column"] == 12
-    assert "expected ')'" in rows[1]["error"]["message"]
+    assert set(rows[0]) >= {"input", "ok", "kind", "ascii", "latex", "mathml", "error"}
+    assert rows[1]["ok"] is False and rows[1]["error"]["message"] == "empty line"
+    assert rows[2]["ok"] is False
+    assert rows[2]["error"]["line"] == 3 and rows[2]["error"]["column"] == 12
+    assert "expected ')'" in rows[2]["error"]["message"]
 
 
 def test_at_prints_exact_values(capsys, monkeypatch):
@@ -45,7 +46,7 @@ def test_at_prints_exact_values(capsys, monkeypatch):
 
 def test_errors_go_to_stderr_with_caret(capsys, monkeypatch):
     code, out, err = run(capsys, monkeypatch, ["n + * 2"])
-    assert code == 1 and out == ""
+    assert code == 1 and out == "\n"  # an empty line holds the failed line's place
     assert "line 1, column 5" in err and err.rstrip().endswith("^")
 
 

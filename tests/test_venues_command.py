@@ -123,7 +123,7 @@ def test_house_table_from_pyproject(tmp_path, capsys, monkeypatch):
     (tmp_path / "house.json").write_text(json.dumps({"Mathematische Annalen": "Math. Annalen"}), "utf-8")
     (tmp_path / "pyproject.toml").write_text('[tool.normform.venues]\ntable = "house.json"\n', "utf-8")
     src = tmp_path / "refs.jsonl"
-    _write_jsonl(src, [{"id": "x", "container-title": "Mathematische Annalen"}])
+    _write_jsonl(src, [{"id": "x", "type": "article-journal", "container-title": "Mathematische Annalen"}])
     monkeypatch.chdir(tmp_path)
     assert main(["venues", str(src), "--to", "abbreviated"]) == 0
     assert json.loads(capsys.readouterr().out)["container-title"] == "Math. Annalen"

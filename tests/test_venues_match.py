@@ -225,7 +225,9 @@ def test_enrich_keeps_the_lines_provenance_and_own_identifiers():
     out, supplied = enrich(line, LIB[0])
     assert out.provenance.raw == "the line"
     assert [i.scheme for i in out.identifiers] == ["doi", "arxiv"]
-    assert "title" in supplied and out.title == LIB[0].title
+    # the line's own title is present: it is kept, never overwritten
+    assert "title" not in supplied and out.title == "x"
+    assert "pages" in supplied and out.pages == LIB[0].pages     # missing on the line: filled
 
 
 def test_csl_json_library_file(tmp_path):

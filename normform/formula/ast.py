@@ -22,6 +22,43 @@ Span = tuple[int, int]
 NO_SPAN: Span = (0, 0)
 
 
+# Longest operator chains (``a + b + ... `` with thousands of terms, bounded by the parser's
+# MAX_LENGTH) make trees thousands of levels deep; the printers, the resolver and the
+# evaluator walk them recursively, a few Python frames per level. Since Python 3.11 such
+# frames live on the heap, not the C stack, so a larger recursion limit during those walks
+# is safe; ``deep`` raises it (never lowers it) for the duration of a call.
+DEEP_RECURSION = 60_000
+_deep_active = [0]
+_saved_limit: list = [None]
+
+
+def deep(func):
+    """Decorator: run ``func`` with room for DEEP_RECURSION frames (see above)."""
+    import functools
+    import sys
+
+    @functools.wraps(func)
+    def wrapper(*args, **kwargs):
+        # the first call in raises the limit, the last one out restores it (calls nest,
+        # and may overlap across threads)
+        if _deep_active[0] == 0:
+            old = sys.getrecursionlimit()
+            if old < DEEP_RECURSION:
+                _saved_limit[0] = old
+                sys.setrecursionlimit(DEEP_RECURSION)
+        _deep_active[0] += 1
+        try:
+            return func(*args, **kwargs)
+        finally:
+            _deep_active[0] -= 1
+            if _deep_active[0] == 0 and _saved_limit[0] is not None:
+                if sys.getrecursionlimit() == DEEP_RECURSION:
+                    sys.setrecursionlimit(_saved_limit[0])
+                _saved_limit[0] = None
+
+    return wrapper
+
+
 def line_col(text: str, offset: int) -> tuple[int, int]:
     """1-based (line, column) of ``offset`` in ``text``."""
     line = text.count("\n", 0, offset) + 1

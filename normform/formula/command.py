@@ -91,11 +91,23 @@ def run(args: argparse.Namespace) -> int:
     failures = 0
     out = sys.stdout
     for lineno, line in enumerate(lines, 1):
+        # every key in every object (null when empty), so a reader needs no key checks
+        record: dict[str, object] = {"input": line, "ok": False, "kind": None, "ascii": None,
+                                     "latex": None, "mathml": None, "error": None}
         if not line.strip():
+            # a blank line keeps its place (output line N is input line N) but is no failure
+            if args.to == "json":
+                record["error"] = {"line": lineno, "column": 1, "message": "empty line"}
+                out.write(json.dumps(record, ensure_ascii=False) + "\n")
+            else:
+                out.write("\n")
             continue
-        record: dict[str, object] = {"input": line, "ok": False}
         try:
-            f = parse_formula(line)
+            try:
+                f = parse_formula(line)
+            except RecursionError:  # safety net: the limits should make this unreachable
+                raise FormulaError("formula too deeply nested", line=1, column=1, source=line,
+                                   expected=("a shallower formula",)) from None
         except FormulaError as exc:
             failures += 1
             record["error"] = {"line": lineno, "column": exc.column, "message": exc.describe().split(": ", 1)[-1]}
@@ -105,6 +117,7 @@ def run(args: argparse.Namespace) -> int:
                 print(f"normform formula: line {lineno}, column {exc.column}: {exc.describe().split(': ', 1)[-1]}",
                       file=sys.stderr)
                 print(exc.excerpt(), file=sys.stderr)
+                out.write("\n")  # keep output line N for input line N
             continue
         record.update(ok=True, kind=f.kind)
         problems = []
@@ -133,10 +146,10 @@ def run(args: argparse.Namespace) -> int:
         for p in problems:
             print(f"normform formula: line {lineno}: {p}", file=sys.stderr)
         if point is not None or args.terms is not None:
-            if "value" in record:
-                out.write(str(record["value"]) + "\n")
-            if "terms" in record:
-                out.write(", ".join(record["terms"]) + "\n")
+            if point is not None:  # an empty line where a value could not be computed
+                out.write(str(record.get("value", "")) + "\n")
+            if args.terms is not None:
+                out.write(", ".join(record.get("terms", ())) + "\n")
             continue
         text = {"ascii": f.to_ascii, "latex": f.to_latex}.get(args.to)
         out.write((text() if text else f.to_mathml(args.display, args.semantics)) + "\n")

@@ -966,6 +966,7 @@ def to_public(x, digits: int):
     return Approx(x.value, digits, pi_multiple=x.pi_multiple, log_of=x.log_of, exact=x.exact)
 
 
+@A.deep
 def evaluate(node: A.Node, env: Mapping[str, object] | None = None, *, digits: int = DEFAULT_DIGITS,
              sequence: SequenceLookup | None = None, exact_internal: bool = False):
     """Value of ``node`` with variables from ``env``.

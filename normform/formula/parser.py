@@ -21,7 +21,10 @@ from normform.formula.errors import FormulaError
 from normform.formula.functions import ALIASES, lookup
 
 MAX_LENGTH = 5000
-"""Longest accepted input, in characters."""
+"""Longest accepted input, in characters other than spaces (canonical ASCII adds spaces
+around ``+``/``-``, so counting them would reject the re-parse of a long valid formula)."""
+MAX_RAW_LENGTH = 4 * MAX_LENGTH
+"""Longest accepted input counting spaces."""
 MAX_DEPTH = 120
 """Deepest accepted nesting: brackets in the text and levels of the tree."""
 
@@ -1309,11 +1312,22 @@ _OPEN, _CLOSE = "([{⌊⌈", ")]}⌋⌉"
 
 
 def _check_limits(text: str) -> None:
-    if len(text) > MAX_LENGTH:
-        raise FormulaError(f"formula longer than {MAX_LENGTH} characters ({len(text)})",
-                           line=1, column=MAX_LENGTH + 1, source=text[: MAX_LENGTH + 40],
-                           offending=text[MAX_LENGTH:MAX_LENGTH + 20],
-                           expected=(f"at most {MAX_LENGTH} characters",))
+    if len(text) > MAX_LENGTH and (len(text) > MAX_RAW_LENGTH or len(text) - text.count(" ") > MAX_LENGTH):
+        if len(text) > MAX_RAW_LENGTH:
+            cut, size, what = MAX_RAW_LENGTH, len(text), "characters"
+        else:  # where the (MAX_LENGTH+1)-th character other than a space stands
+            seen, cut = 0, 0
+            for cut, ch in enumerate(text):
+                if ch != " ":
+                    seen += 1
+                    if seen > MAX_LENGTH:
+                        break
+            size, what = len(text) - text.count(" "), "characters other than spaces"
+        limit = MAX_RAW_LENGTH if what == "characters" else MAX_LENGTH
+        raise FormulaError(f"formula longer than {limit} {what} ({size})",
+                           line=1, column=cut + 1, source=text[: cut + 40],
+                           offending=text[cut:cut + 20],
+                           expected=(f"at most {limit} {what}",))
     if sum(text.count(c) for c in _OPEN) <= MAX_DEPTH:
         return
     depth = 0
@@ -1409,6 +1423,7 @@ def _lark_error(text: str, exc: Exception) -> FormulaError:
 
 # ------------------------------------------------------------ entry ---------
 
+@A.deep
 def parse_statement(text: str) -> A.Statement:
     """Parse one formula line into a :class:`Statement`; raise :class:`FormulaError`."""
     if not isinstance(text, str):
@@ -1473,13 +1488,27 @@ def _check_standalone(text: str, standalone: set[str], applies: list) -> None:
                                 where.span if where is not None else (text.find(n), text.find(n) + len(n)))
 
 
+_CHAIN_CLASS = {"+": 1, "-": 1, "*": 2, "/": 2}
+
+
 def _check_depth(text: str, stmt: A.Statement) -> None:
+    """Reject real nesting deeper than MAX_DEPTH. The operand of a chain ``a + b + c ...``
+    (a left operand under an operator of the same level) stays at its chain's level: a long
+    chain is length, not nesting (every pass walks such chains without recursion), and the
+    length is bounded by MAX_LENGTH."""
     stack = [(stmt, 1)]
+    binop = A.BinOp
     while stack:
         node, d = stack.pop()
         if d > MAX_DEPTH:
             _fail(text, node.span[0], f"formula nested deeper than {MAX_DEPTH} levels",
                   (f"at most {MAX_DEPTH} levels",))
+        if node.__class__ is binop and node.op in _CHAIN_CLASS:
+            left = node.left
+            same = left.__class__ is binop and _CHAIN_CLASS.get(left.op) == _CHAIN_CLASS[node.op]
+            stack.append((left, d if same else d + 1))
+            stack.append((node.right, d + 1))
+            continue
         stack.extend((c, d + 1) for c in node.children())
 
 

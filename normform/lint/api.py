@@ -5,6 +5,7 @@ from __future__ import annotations
 from normform.lint.engine import Context, lint
 from normform.lint.entry import EntrySyntaxError, entry_files, parse_entry, read_entry
 from normform.lint.findings import Finding
+from normform.lint.refs_facts import reference_from_table
 from normform.lint.registry import select_rules
 from normform.lint.settings import LintSettings
 
@@ -35,4 +36,4 @@ def lint_paths(paths: list[str], *, settings: LintSettings | None = None, select
     return sorted(found, key=Finding.sort_key)
 
 
-__all__ = ["lint_text", "lint_paths", "LintSettings", "Finding"]
+__all__ = ["lint_text", "lint_paths", "LintSettings", "Finding", "reference_from_table"]

@@ -108,6 +108,8 @@ def _lint(args, settings, rules, fail_on: str) -> int:
             io_errors += 1
             continue
         files.extend(entry_files([path]))
+    if io_errors and not files:
+        return 2        # nothing was linted: the error on stderr is the whole answer
     selected = {r.slug for r in rules}
     entries, findings = [], []
     syntax_sources: dict[str, Located] = {}   # for the excerpt under a syntax error

@@ -88,7 +88,9 @@ def _name_from_text(text: str):
     return Name(family=parts[-1], given=" ".join(parts[:-1]) or None) if parts else Name(literal=text)
 
 
-def _from_table(table: dict):
+def reference_from_table(table: dict):
+    """The model :class:`~normform.model.Reference` of a structured entry reference (a TOML/JSON table
+    with the model's field names; ``pages`` as "first-last", ``year`` an integer, identifiers by scheme)."""
     from normform.model import Date, Kind, Name, Pages, Provenance, Reference
 
     def names(key):
@@ -120,11 +122,14 @@ def _from_table(table: dict):
                      provenance=Provenance(confidence=1.0), **text_fields)
 
 
+_from_table = reference_from_table     # the former private name, kept for existing callers
+
+
 def parsed(entry, item: RefItem):
     """The model record of one reference (parsed when it is a free-form line)."""
     cache = entry.cache.setdefault("ref_parsed", {})
     if item.path not in cache:
-        cache[item.path] = services.parse_reference(item.text) if item.text is not None else _from_table(item.table)
+        cache[item.path] = services.parse_reference(item.text) if item.text is not None else reference_from_table(item.table)
     return cache[item.path]
 
 

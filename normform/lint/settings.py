@@ -21,7 +21,8 @@ class LintSettings:
     id_pattern: str = r"^Q\d{6}$"
     languages: list[str] = field(default_factory=lambda: list(DEFAULT_LANGUAGES))
     min_confidence: float = 0.5          # below: "reference-unparsed"
-    style_confidence: float = 0.85       # at or above: house-style fix is offered
+    style_confidence: float = 0.85       # at or above: the line is compared with the house style
+    fix_confidence: float = 0.9          # at or above (and no word lost): the house-style fix is offered
     severity: dict[str, str] = field(default_factory=dict)   # slug -> severity override
     source: str | None = None            # the file the settings came from
 

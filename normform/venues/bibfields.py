@@ -9,7 +9,7 @@ splice in the new value.  pybtex still validates the file in the command.
 from __future__ import annotations
 
 from dataclasses import dataclass
-from typing import Iterator
+from typing import Callable, Iterator
 
 from normform.venues.errors import VenueTableError
 
@@ -67,87 +67,107 @@ def _balanced(text: str, i: int, close: str) -> int:
         elif c == close and depth == 0:
             return j + 1
         j += 1
-    raise _error(text, i, "field value is never closed", expected=(close,))
+    raise _error(text, i, "field value is never closed", expected=(f"'{close}'",))
 
 
-def fields(text: str) -> Iterator[FieldValue]:
-    """Every field value of every regular entry (``@string``/``@comment``/``@preamble`` skipped)."""
+def fields(text: str, on_error: Callable[[BibScanError], None] | None = None) -> Iterator[FieldValue]:
+    """Every field value of every regular entry (``@string``/``@comment``/``@preamble`` skipped).
+
+    A malformed entry yields nothing: it goes to ``on_error`` and the scan goes
+    on at the next ``@`` that starts a line (without a handler it raises).
+    """
     i, n = 0, len(text)
     while True:
         at = text.find("@", i)
         if at < 0:
             return
-        j = at + 1
-        while j < n and (text[j].isalnum() or text[j] in "_-"):
-            j += 1
-        kind = text[at + 1:j].lower()
-        j = _skip_space(text, j)
-        if j >= n or text[j] not in "{(":
-            i = at + 1           # a stray '@' in free text between entries
+        try:
+            found, i = _entry(text, at)
+        except BibScanError as exc:
+            if on_error is None:
+                raise
+            on_error(exc)
+            nxt = text.find("\n@", at + 1)
+            if nxt < 0:
+                return
+            i = nxt + 1
             continue
-        close = "}" if text[j] == "{" else ")"
-        if kind in ("comment", "preamble", "string"):
-            i = _balanced(text, j, close)
-            continue
+        yield from found
+
+
+def _entry(text: str, at: int) -> tuple[list[FieldValue], int]:
+    """The fields of the entry starting at ``at``, and the index after it."""
+    n = len(text)
+    out: list[FieldValue] = []
+    j = at + 1
+    while j < n and (text[j].isalnum() or text[j] in "_-"):
         j += 1
-        comma = text.find(",", j)
-        if comma < 0:
-            raise _error(text, j, "entry has no key followed by ','", expected=(",",))
-        entry_key = text[j:comma].strip()
-        j = comma + 1
+    kind = text[at + 1:j].lower()
+    j = _skip_space(text, j)
+    if j >= n or text[j] not in "{(":
+        return out, at + 1   # a stray '@' in free text between entries
+    close = "}" if text[j] == "{" else ")"
+    if kind in ("comment", "preamble", "string"):
+        return out, _balanced(text, j, close)
+    j += 1
+    comma = text.find(",", j)
+    if comma < 0:
+        raise _error(text, j, "entry has no key followed by ','", expected=("','",))
+    entry_key = text[j:comma].strip()
+    j = comma + 1
+    while True:
+        j = _skip_space(text, j)
+        if j < n and text[j] == close:
+            return out, j + 1
+        if j >= n:
+            raise _error(text, at, "entry is never closed", expected=(f"'{close}'",))
+        start_name = j
+        while j < n and (text[j].isalnum() or text[j] in "_-:."):
+            j += 1
+        name = text[start_name:j].lower()
+        if not name:
+            raise _error(text, j, "expected a field name", expected=(f"a field 'name = value' or '{close}'",))
+        j = _skip_space(text, j)
+        if j >= n or text[j] != "=":
+            raise _error(text, j, f"expected '=' after field name {name!r}", expected=("'='",))
+        j = _skip_space(text, j + 1)
+        v_start = j
+        pieces: list[tuple[int, int, bool]] = []
         while True:
-            j = _skip_space(text, j)
-            if j < n and text[j] == close:
-                i = j + 1
-                break
-            if j >= n:
-                raise _error(text, at, "entry is never closed", expected=(close,))
-            start_name = j
-            while j < n and (text[j].isalnum() or text[j] in "_-:."):
-                j += 1
-            name = text[start_name:j].lower()
-            if not name:
-                raise _error(text, j, "expected a field name", expected=("name = value", close))
-            j = _skip_space(text, j)
-            if j >= n or text[j] != "=":
-                raise _error(text, j, f"expected '=' after field name {name!r}", expected=("=",))
-            j = _skip_space(text, j + 1)
-            v_start = j
-            pieces: list[tuple[int, int, bool]] = []
-            while True:
-                if j < n and text[j] in "{\"":
-                    end = _balanced(text, j, "}" if text[j] == "{" else "\"")
-                    pieces.append((j, end, True))
-                else:
-                    k = j
-                    while k < n and (text[k].isalnum() or text[k] in "_-:.+/'"):
-                        k += 1
-                    if k == j:
-                        raise _error(text, j, f"expected a value for field {name!r}",
-                                     expected=("{...}", "\"...\"", "a macro name"))
-                    end = k
-                    pieces.append((j, end, False))
-                j = _skip_space(text, end)
-                if j < n and text[j] == "#":
-                    j = _skip_space(text, j + 1)
-                    continue
-                break
-            v_end = pieces[-1][1]
-            simple = len(pieces) == 1 and pieces[0][2]
-            inner = text[v_start + 1:v_end - 1] if simple else text[v_start:v_end]
-            yield FieldValue(entry_key, name, v_start, v_end, inner, simple,
-                             _position(text, v_start)[0])
-            if j < n and text[j] == ",":
-                j += 1
-            elif j < n and text[j] == close:
-                continue
+            if j < n and text[j] in "{\"":
+                end = _balanced(text, j, "}" if text[j] == "{" else "\"")
+                pieces.append((j, end, True))
             else:
-                raise _error(text, j, "expected ',' or the end of the entry", expected=(",", close))
+                k = j
+                while k < n and (text[k].isalnum() or text[k] in "_-:.+/'"):
+                    k += 1
+                if k == j:
+                    raise _error(text, j, f"expected a value for field {name!r}",
+                                 expected=("'{...}', '\"...\"' or a macro name",))
+                end = k
+                pieces.append((j, end, False))
+            j = _skip_space(text, end)
+            if j < n and text[j] == "#":
+                j = _skip_space(text, j + 1)
+                continue
+            break
+        v_end = pieces[-1][1]
+        simple = len(pieces) == 1 and pieces[0][2]
+        inner = text[v_start + 1:v_end - 1] if simple else text[v_start:v_end]
+        out.append(FieldValue(entry_key, name, v_start, v_end, inner, simple,
+                              _position(text, v_start)[0]))
+        if j < n and text[j] == ",":
+            j += 1
+        elif j < n and text[j] == close:
+            continue
+        else:
+            raise _error(text, j, "the field value is not followed by ',' or the end of the entry",
+                         expected=(f"',' or '{close}'",))
 
 
 def replace_values(text: str, changes: dict[int, str]) -> str:
     """Splice new values (keyed by the value's start offset) into ``text``; each in braces."""
-    spans = {f.start: f for f in fields(text) if f.start in changes}
+    spans = {f.start: f for f in fields(text, on_error=lambda exc: None) if f.start in changes}
     out: list[str] = []
     last = 0
     for start in sorted(spans):

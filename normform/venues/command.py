@@ -80,6 +80,7 @@ class Run:
         self.fields = 0
         self.errors: list[str] = []
         self.notes: list[str] = []
+        self.not_journal: Counter = Counter()    # CSL type -> records whose container is not a journal
 
     def rewrite(self, name: str) -> str:
         self.fields += 1
@@ -102,7 +103,8 @@ class Run:
             "left_as_written": [{"name": a, "why": how, "candidates": list(c), "count": n}
                                 for (a, how, c), n in self.left.most_common()],
             "errors": self.errors,
-            "notes": self.notes,
+            "notes": self.notes + [f"{n} {t} record(s): container-title is not a journal title; not rewritten"
+                                   for t, n in sorted(self.not_journal.items())],
         }
 
     def report_text(self) -> str:
@@ -122,6 +124,22 @@ class Run:
         return "\n".join(lines) + "\n"
 
 
+# CSL types whose container-title is a journal (the ISO 4 rewrite applies to
+# serial titles only; a chapter's container is a book title, kept as written).
+JOURNAL_TYPES = frozenset({"article-journal", "article-magazine", "article-newspaper", "periodical"})
+
+
+def _journal_venue(item: dict, run: "Run") -> str | None:
+    """The item's container-title when the item is journal-like; else None (counted)."""
+    venue = item.get("container-title")
+    if not isinstance(venue, str) or not venue.strip():
+        return None
+    if item.get("type") not in JOURNAL_TYPES:
+        run.not_journal[str(item.get("type") or "no type")] += 1
+        return None
+    return venue
+
+
 def _csl_array(text: str, run: Run, path: str) -> str:
     """A CSL-JSON array file: rewrite in place, write the array back."""
     try:
@@ -132,13 +150,14 @@ def _csl_array(text: str, run: Run, path: str) -> str:
         raise VenueTableError(f"not JSON: {exc.msg}", line=exc.lineno, column=exc.colno,
                               source=text, path=path) from None
     run.style.learn_collection(i.get("container-title") for i in items
-                               if isinstance(i, dict) and isinstance(i.get("container-title"), str))
+                               if isinstance(i, dict) and isinstance(i.get("container-title"), str)
+                               and i.get("type") in JOURNAL_TYPES)
     for item in items:
         if not isinstance(item, dict):
             continue
         run.records += 1
-        venue = item.get("container-title")
-        if isinstance(venue, str) and venue.strip():
+        venue = _journal_venue(item, run)
+        if venue is not None:
             item["container-title"] = run.rewrite(venue)
     return json.dumps(items, ensure_ascii=False, indent=2) + "\n"
 
@@ -162,7 +181,8 @@ def _jsonl(text: str, run: Run, path: str) -> str:
             records.append((line, None))
             continue
         records.append((line, obj))
-    names = [o.get("container-title") for _, o in records if o and isinstance(o.get("container-title"), str)]
+    names = [o.get("container-title") for _, o in records
+             if o and isinstance(o.get("container-title"), str) and o.get("type") in JOURNAL_TYPES]
     run.style.learn_collection(names)
     out = []
     for line, obj in records:
@@ -170,8 +190,8 @@ def _jsonl(text: str, run: Run, path: str) -> str:
             out.append(line)
             continue
         run.records += 1
-        venue = obj.get("container-title")
-        if isinstance(venue, str) and venue.strip():
+        venue = _journal_venue(obj, run)
+        if venue is not None:
             new = run.rewrite(venue)
             if new != venue:
                 obj["container-title"] = new
@@ -183,7 +203,12 @@ def _jsonl(text: str, run: Run, path: str) -> str:
 def _bibtex(text: str, run: Run, path: str) -> str:
     from normform.venues.bibfields import fields, replace_values
 
-    found = list(fields(text))
+    def broken(exc) -> None:
+        # one broken entry costs that entry only: the rest is still rewritten
+        exc.path = path
+        run.errors.append(f"{exc.describe()}; entry left as written")
+
+    found = list(fields(text, on_error=broken))
     run.records = len({f.entry_key for f in found})
     journals = [f for f in found if f.name == "journal"]
     decoded = {f.start: _bib_decode(f.text) for f in journals if f.delimited}

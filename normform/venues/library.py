@@ -8,6 +8,7 @@ from __future__ import annotations
 
 import json
 from pathlib import Path
+from typing import Callable
 
 from normform.model import Reference
 from normform.venues.errors import LibraryError
@@ -17,8 +18,21 @@ def is_bibtex(path: str | Path) -> bool:
     return Path(path).suffix.lower() in (".bib", ".bibtex")
 
 
-def csl_objects(text: str, path: str) -> list[dict]:
-    """CSL-JSON items from a JSON array, a single object, or JSON Lines."""
+OnError = Callable[[LibraryError], None]
+
+
+def _raise(exc: LibraryError) -> None:
+    raise exc
+
+
+def csl_objects(text: str, path: str, on_error: OnError | None = None) -> list[dict]:
+    """CSL-JSON items from a JSON array, a single object, or JSON Lines.
+
+    A malformed line or item goes to ``on_error`` and is skipped (without a
+    handler the first one raises).  A JSON array that does not parse at all
+    always raises: nothing after the error can be read.
+    """
+    report = on_error or _raise
     stripped = text.lstrip()
     if stripped.startswith("["):
         try:
@@ -35,12 +49,16 @@ def csl_objects(text: str, path: str) -> list[dict]:
             try:
                 items.append(json.loads(line))
             except json.JSONDecodeError as exc:
-                raise LibraryError(f"not a JSON object: {exc.msg}", line=number, column=exc.colno,
-                                   source=text, path=path, expected=("one CSL-JSON object per line",)) from None
+                report(LibraryError(f"not a JSON object: {exc.msg}; the line is skipped", line=number,
+                                    column=exc.colno, source=text, path=path,
+                                    expected=("one CSL-JSON object per line",)))
+    good = []
     for n, item in enumerate(items, start=1):
         if not isinstance(item, dict):
-            raise LibraryError(f"item {n} is not a CSL-JSON object", line=1, column=1, path=path)
-    return items
+            report(LibraryError(f"item {n} is not a CSL-JSON object; it is skipped", line=1, column=1, path=path))
+            continue
+        good.append(item)
+    return good
 
 
 def from_csl(item: dict) -> Reference:
@@ -51,8 +69,14 @@ def from_csl(item: dict) -> Reference:
     return convert(item)
 
 
-def read_library(path: str | Path) -> list[Reference]:
-    """All records of a curated BibTeX or CSL-JSON file (malformed entries raise)."""
+def read_library(path: str | Path, on_error: OnError | None = None) -> list[Reference]:
+    """All readable records of a curated BibTeX or CSL-JSON file.
+
+    Each malformed entry is passed to ``on_error`` (a positioned
+    :class:`LibraryError`) and skipped; without a handler the first one raises.
+    A file that cannot be read at all always raises.
+    """
+    report = on_error or _raise
     p = Path(path)
     try:
         text = p.read_text("utf-8")
@@ -62,10 +86,18 @@ def read_library(path: str | Path) -> list[Reference]:
         from normform.readers.bibtex import read_bibtex
 
         result = read_bibtex(text, str(p))
-        if result.errors:
-            raise result.errors[0]
+        for exc in result.errors:
+            report(LibraryError(exc.message, line=exc.line, column=exc.column, source=text,
+                                expected=exc.expected, path=str(p)))
         return list(result.records)
-    return [from_csl(item) for item in csl_objects(text, str(p))]
+    records = []
+    for item in csl_objects(text, str(p), on_error):
+        try:
+            records.append(from_csl(item))
+        except (ValueError, TypeError, KeyError) as exc:
+            report(LibraryError(f"CSL-JSON item {item.get('id', '?')!r} skipped: {exc}", line=1, column=1,
+                                path=str(p)))
+    return records
 
 
 def to_csl(ref: Reference) -> dict:

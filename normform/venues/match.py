@@ -65,6 +65,8 @@ class MatchResult:
     field_scores: tuple[tuple[str, float], ...] = ()
     enriched: tuple[str, ...] = ()      # fields the library supplied or replaced
     candidates: int = 0                 # how many records passed blocking
+    rejected: bool = False              # scored above the threshold, vetoed by ``conflicts``
+    kept: tuple[Conflict, ...] = ()     # other fields the line has otherwise; the line's value kept
 
     @property
     def notes(self) -> tuple[str, ...]:
@@ -72,11 +74,17 @@ class MatchResult:
         out = []
         if self.record is None:
             out.append("no library record shares a title word or first author")
+        elif self.rejected:
+            out.append(f"library record {self.record.key or '?'} scored {self.score:.2f} but was rejected: "
+                       + ", ".join(f"{c.field} {c.line!r} vs {c.library!r}" for c in self.conflicts)
+                       + "; nothing changed")
         elif not self.matched:
             out.append(f"best library record {self.record.key or '?'} scored {self.score:.2f}, below the threshold; nothing changed")
         else:
             out.append(f"matched library record {self.record.key or '?'} (score {self.score:.2f})")
             out += [f"{c.field} differs: line has {c.line!r}, library has {c.library!r}" for c in self.conflicts]
+            out += [f"{c.field} differs: line has {c.line!r}, library has {c.library!r}; the line's value is kept"
+                    for c in self.kept]
         return tuple(out)
 
 
@@ -116,6 +124,8 @@ class _Features:
     surname: str = ""                           # last word of the first family name (blocking)
     numbers: frozenset[str] = frozenset()       # part numbers of the title
     raw_numbers: frozenset[str] = frozenset()   # numbers anywhere on the raw line
+    initials: tuple[str, ...] = ()              # first given-name initial per author ("" when none)
+    etal: bool = False                          # the line cuts its author list ("et al.")
 
 
 def _blocking_words(text_key: str) -> tuple[str, ...]:
@@ -148,7 +158,20 @@ def features(ref: Reference) -> _Features:
         raw_numbers=_numbers(raw),
         raw_words=frozenset(raw.split()),
         surname=families[0].rsplit(" ", 1)[-1] if families else "",
+        initials=tuple(_initial(n) for n in (ref.authors or ref.editors) if _family_key(n)),
+        etal=bool(_ETAL.search(ref.provenance.raw)) if ref.provenance and ref.provenance.raw else False,
     )
+
+
+_ETAL = re.compile(r"\bet\.?\s*al\b|\band others\b", re.I)
+
+
+def _initial(name: Name) -> str:
+    """Case-folded first letter of the given name ("" for none or a literal name)."""
+    if name.literal is not None or not name.given:
+        return ""
+    g = key(name.given)
+    return g[:1]
 
 
 # -- scores --------------------------------------------------------------
@@ -220,6 +243,11 @@ def _authors_score(q: _Features, r: _Features) -> float | None:
     score = min(1.0, credit / min(len(q.families), len(r.families)))
     if q.families[0] != r.families[0] and _family_similarity(q.families[0], r.families[0]) < 0.75:
         score *= 0.8   # first authors differ: another order, or a different work
+    if len(q.families) < len(r.families) and not q.etal:
+        score *= 0.9   # the line names fewer authors and does not say "et al.": maybe another work
+    qi, ri = (q.initials[0] if q.initials else ""), (r.initials[0] if r.initials else "")
+    if qi and ri and qi != ri and q.families[0] == r.families[0]:
+        score *= 0.8   # same family name, other first initial: another person
     return max(score, _authors_on_line(q, r))
 
 
@@ -304,24 +332,77 @@ _COPY = ("kind", "authors", "editors", "translators", "title", "container_title"
          "series_number", "volume", "issue", "pages", "date", "publisher", "place", "edition",
          "genre", "language", "note", "key", "title_protected")
 
+HARD_FIELDS = ("year", "volume", "pages")   # two disagreements among these veto a match
 
-def enrich(query: Reference, record: Reference, score: float = 1.0) -> tuple[Reference, tuple[str, ...]]:
-    """The curated record wins field by field; the line fills what the record lacks.
 
-    Identifiers are the union (the record's first); the raw line and origin
-    stay the line's, so a batch report can still point at it, and the
-    record-level confidence becomes the match ``score``.
+def hard_conflicts(query: Reference, record: Reference) -> tuple[Conflict, ...]:
+    """Conflicts strong enough to tell two works apart: year off by more than one,
+    another volume, another first page (a line citing one page of the work is no conflict)."""
+    out = []
+    if query.year is not None and record.year is not None and abs(query.year - record.year) > 1:
+        out.append(Conflict("year", str(query.year), str(record.year)))
+    if query.volume and record.volume and key(query.volume) != key(record.volume):
+        out.append(Conflict("volume", query.volume, record.volume))
+    qf, rf = _pages_text(query)[0], _pages_text(record)[0]
+    if qf and rf and key(qf) != key(rf):
+        qp, rp = query.pages, record.pages
+        out.append(Conflict("pages", qp.range_text() or qf, rp.range_text() or rf))
+    return tuple(out)
+
+
+def _same_venue(mine: str, theirs: str) -> bool:
+    """The line's venue is the record's venue in another spelling (an ISO 4 abbreviation of it)."""
+    return _venue_pair(_venue_key(mine), _venue_key(theirs)) >= 0.95
+
+
+def _shown(value) -> str:
+    if isinstance(value, tuple):
+        return "; ".join(_shown(v) for v in value)
+    if isinstance(value, Name):
+        return value.literal or " ".join(p for p in (value.given, value.family_full()) if p)
+    if hasattr(value, "range_text"):
+        return value.range_text() or ""
+    if hasattr(value, "year") and not isinstance(value, Reference):
+        return str(value.year) if value.year is not None else str(value)
+    return str(value)
+
+
+def enrich_report(query: Reference, record: Reference, score: float = 1.0
+                  ) -> tuple[Reference, tuple[str, ...], tuple[Conflict, ...]]:
+    """Fill from the curated record only what the line lacks; report what it holds otherwise.
+
+    A field the parsed line already has is never replaced, with one exception
+    that is reported in the supplied list: a venue the line gives as an
+    abbreviation of the record's venue takes the record's full title.  Every
+    other disagreement comes back as a :class:`Conflict` (the line's value is
+    kept).  Identifiers are the union (the record's first); the raw line and
+    origin stay the line's; the record-level confidence becomes ``score``.
     """
     changes: dict = {}
     supplied: list[str] = []
+    kept: list[Conflict] = []
     for name in _COPY:
         mine, theirs = getattr(query, name), getattr(record, name)
         if theirs in (None, (), "") or theirs == mine:
             continue
-        if name == "kind" and mine != type(mine).OTHER and theirs == type(theirs).OTHER:
+        if name == "kind":
+            if mine == type(mine).OTHER and theirs != type(theirs).OTHER:
+                changes[name] = theirs
+                supplied.append(name)
             continue
-        changes[name] = theirs
-        supplied.append(name)
+        if mine in (None, (), ""):
+            changes[name] = theirs
+            supplied.append(name)
+            continue
+        if name == "container_title" and _same_venue(mine, theirs):
+            changes[name] = theirs
+            supplied.append(name)
+            continue
+        if name == "key" or name == "title_protected":
+            continue        # the line's own citation key and markup stay; not data
+        if name in ("title", "container_title", "publisher", "place", "series", "note") and key(mine) == key(theirs):
+            continue        # the same words, another case or accent: not worth a report
+        kept.append(Conflict("year" if name == "date" else name, _shown(mine), _shown(theirs)))
     ids = list(record.identifiers)
     have = {(i.scheme, i.value.lower()) for i in ids}
     for ident in query.identifiers:
@@ -336,11 +417,15 @@ def enrich(query: Reference, record: Reference, score: float = 1.0) -> tuple[Ref
     if tuple(extra.items()) != query.extra:
         changes["extra"] = tuple(extra.items())
     if changes and query.provenance is not None and record.provenance is None:
-        # the fields now come from the curated record: the parser's per-field
-        # confidences no longer describe them; keep the raw line and its origin
         p = query.provenance
-        changes["provenance"] = Provenance(raw=p.raw, fields=(), confidence=score, origin=p.origin)
-    return (query.replace(**changes) if changes else query), tuple(supplied)
+        changes["provenance"] = Provenance(raw=p.raw, fields=p.fields, confidence=score, origin=p.origin)
+    return (query.replace(**changes) if changes else query), tuple(supplied), tuple(kept)
+
+
+def enrich(query: Reference, record: Reference, score: float = 1.0) -> tuple[Reference, tuple[str, ...]]:
+    """:func:`enrich_report` without the conflicts (the batch step's interface)."""
+    ref, supplied, _ = enrich_report(query, record, score)
+    return ref, supplied
 
 
 # -- the matcher -------------------------------------------------------------
@@ -374,10 +459,13 @@ class AuthorityMatcher:
         self._sets: dict[tuple[str, str], frozenset[int]] = {}
 
     @classmethod
-    def from_file(cls, path: str | Path, threshold: float = DEFAULT_THRESHOLD) -> "AuthorityMatcher":
+    def from_file(cls, path: str | Path, threshold: float = DEFAULT_THRESHOLD,
+                  on_error=None) -> "AuthorityMatcher":
+        """Index a library file; malformed entries go to ``on_error`` and are skipped
+        (see :func:`normform.venues.library.read_library`; without it the first raises)."""
         from normform.venues.library import read_library
 
-        return cls(read_library(path), threshold=threshold)
+        return cls(read_library(path, on_error), threshold=threshold)
 
     def __len__(self) -> int:
         return len(self.records)
@@ -446,20 +534,39 @@ class AuthorityMatcher:
         q = features(ref)
         cands = self.candidates(q)
         best, best_score, best_parts = None, 0.0, ()
-        for i in cands:
-            s, parts = score_pair(q, self._feat[i], best_score)
-            if s > best_score:
-                best, best_score, best_parts = i, s, parts
-        if best is None:
-            return MatchResult(ref, None, 0.0, False, ref, candidates=len(cands))
-        record = self.records[best]
-        matched = best_score >= self.threshold
-        if not matched:
-            return MatchResult(ref, record, best_score, False, ref, field_scores=best_parts,
+        rejected: MatchResult | None = None
+        vetoed: set[int] = set()
+        while True:
+            best, best_score, best_parts = None, 0.0, ()
+            for i in cands:
+                if i in vetoed:
+                    continue
+                s, parts = score_pair(q, self._feat[i], best_score)
+                if s > best_score:
+                    best, best_score, best_parts = i, s, parts
+            if best is None or best_score < self.threshold:
+                break
+            hard = hard_conflicts(ref, self.records[best])
+            if len(hard) < 2:
+                break
+            # Two works that disagree on two of year, volume and first page are
+            # not one work, however alike their titles: reject, try the next.
+            vetoed.add(best)
+            if rejected is None:
+                rejected = MatchResult(ref, self.records[best], best_score, False, ref, hard, best_parts,
+                                       candidates=len(cands), rejected=True)
+        if best is None or best_score < self.threshold:
+            if rejected is not None:
+                return rejected
+            if best is None:
+                return MatchResult(ref, None, 0.0, False, ref, candidates=len(cands))
+            return MatchResult(ref, self.records[best], best_score, False, ref, field_scores=best_parts,
                                candidates=len(cands))
-        enriched, supplied = enrich(ref, record, best_score)
+        record = self.records[best]
+        enriched, supplied, kept = enrich_report(ref, record, best_score)
         return MatchResult(ref, record, best_score, True, enriched, _conflicts(ref, record),
-                           best_parts, supplied, len(cands))
+                           best_parts, supplied, len(cands), kept=tuple(
+                               k for k in kept if k.field not in HARD_FIELDS))
 
     def match_all(self, refs: Iterable[Reference]) -> Iterable[MatchResult]:
         for ref in refs:
@@ -468,9 +575,9 @@ class AuthorityMatcher:
 
 # -- module-level conveniences (the batch step calls these) -----------------
 
-def load_library(path: str | Path, threshold: float = DEFAULT_THRESHOLD) -> AuthorityMatcher:
+def load_library(path: str | Path, threshold: float = DEFAULT_THRESHOLD, on_error=None) -> AuthorityMatcher:
     """An :class:`AuthorityMatcher` over a BibTeX or CSL-JSON library file."""
-    return AuthorityMatcher.from_file(path, threshold=threshold)
+    return AuthorityMatcher.from_file(path, threshold=threshold, on_error=on_error)
 
 
 def match(ref: Reference, matcher: AuthorityMatcher) -> MatchResult:
@@ -478,5 +585,6 @@ def match(ref: Reference, matcher: AuthorityMatcher) -> MatchResult:
     return matcher.match(ref)
 
 
-__all__ = ["AuthorityMatcher", "MatchResult", "Conflict", "load_library", "match", "enrich",
+__all__ = ["AuthorityMatcher", "MatchResult", "Conflict", "load_library", "match", "enrich", "enrich_report",
+           "hard_conflicts",
            "DEFAULT_THRESHOLD", "WEIGHTS"]

@@ -53,7 +53,9 @@ def result_object(n: int, raw: str | None, result) -> dict:
         "score": round(result.score, 4),
         "library_key": result.record.key if result.record is not None else None,
         "field_scores": {name: round(s, 3) for name, s in result.field_scores},
+        "rejected": result.rejected,
         "conflicts": [{"field": c.field, "line": c.line, "library": c.library} for c in result.conflicts],
+        "kept_from_line": [{"field": c.field, "line": c.line, "library": c.library} for c in result.kept],
         "enriched_fields": list(result.enriched),
         "record": to_csl(result.reference),
         "best_candidate": to_csl(result.record) if result.record is not None and not result.matched else None,
@@ -75,8 +77,15 @@ def run(args: argparse.Namespace) -> int:
         text = src.read_text("utf-8")
     except OSError as exc:
         raise UsageError(f"cannot read {args.input}: {exc.strerror}") from None
+    skipped: list[PositionedError] = []
+
+    def skip(exc: PositionedError) -> None:
+        # a malformed library entry costs that entry only: warn where it is, go on
+        skipped.append(exc)
+        print(f"normform match: warning: {exc.describe()}", file=sys.stderr)
+
     try:
-        matcher = AuthorityMatcher.from_file(args.against, threshold=args.threshold)
+        matcher = AuthorityMatcher.from_file(args.against, threshold=args.threshold, on_error=skip)
     except PositionedError as exc:
         print(f"normform match: {exc.describe()}", file=sys.stderr)
         return 2
@@ -102,6 +111,7 @@ def run(args: argparse.Namespace) -> int:
     else:
         sys.stdout.write(out)
     print(f"match: {lines} lines against {len(matcher)} library records: {matched} matched "
-          f"(threshold {args.threshold}), {lines - matched} unchanged, {conflicted} with conflicts",
+          f"(threshold {args.threshold}), {lines - matched} unchanged, {conflicted} with conflicts"
+          + (f"; {len(skipped)} malformed library entries skipped" if skipped else ""),
           file=sys.stderr)
-    return 1 if conflicted else 0
+    return 1 if conflicted or skipped else 0

@@ -2,6 +2,9 @@
 
 from __future__ import annotations
 
+import re
+import unicodedata
+
 from normform.lint import services
 from normform.lint.findings import Fix
 from normform.lint.refs_facts import items, parsed, reference_ids, work_key
@@ -111,6 +114,38 @@ def _lost(a, b) -> list[str]:
     return [k for k in ca if ca[k] != cb[k]]
 
 
+# Words a house style may add, drop or respell without changing what a line
+# says: field labels and joiners (common practice of reference styles).
+DECORATION = frozenset("""pp p pg pages page vol vols volume volumes no nos nr number numbers issue iss
+and in eds ed edn edition editor editors edited by et al""".split())
+
+_TOKEN = re.compile(r"[^\W_]+")
+
+
+def _folded_tokens(text: str) -> list[tuple[str, bool]]:
+    """(case- and accent-folded letters/digits token, abbreviated i.e. followed by '.') per token."""
+    plain = "".join(c for c in unicodedata.normalize("NFKD", text) if not unicodedata.combining(c))
+    return [(m.group().casefold(), plain[m.end():m.end() + 1] == ".") for m in _TOKEN.finditer(plain)]
+
+
+def words_dropped(original: str, styled: str) -> list[str]:
+    """Words of ``original`` missing from ``styled`` (empty: nothing the line says is lost).
+
+    A word the line abbreviates with a full stop ("Fib.") may come back spelled
+    out ("Fibonacci"); a full word ("Quill") must come back whole, so a
+    restyling that cuts names to initials is caught.
+    """
+    have = {w for w, _ in _folded_tokens(styled)}
+    missing = []
+    for word, abbreviated in _folded_tokens(original):
+        if word in DECORATION or word in have:
+            continue
+        if abbreviated and any(h.startswith(word) for h in have):
+            continue
+        missing.append(word)
+    return missing
+
+
 @rule("reference-house-style", "references", "note",
       "a confidently read reference line differs from the house style (setting style-confidence)", fixable=True)
 def reference_house_style(entry, ctx):
@@ -129,11 +164,21 @@ def reference_house_style(entry, ctx):
             lost = _lost(ref, services.parse_reference(styled))
         except ValueError:
             lost = ["everything (the restyled line cannot be read)"]
-        if not lost:
+        # The fix is offered only when it is safe: a confident reading, and no
+        # word of the line missing from the rewrite (parser slips show up there).
+        why = ""
+        dropped = words_dropped(item.text, styled)
+        if lost:
+            why = f"the automatic form would change {', '.join(lost)}"
+        elif dropped:
+            why = f"the automatic form would drop the words {', '.join(dict.fromkeys(dropped))}"
+        elif (ref.confidence or 0) < ctx.settings.fix_confidence:
+            why = (f"the line was read with confidence {ref.confidence or 0:.2f}, below the "
+                   f"{ctx.settings.fix_confidence} an automatic rewrite needs (setting fix-confidence)")
+        if not why:
             yield entry.finding(reference_house_style.rule, f"write this reference in house style: {styled}",
                                 item.path,
                                 fix=Fix("rewrite in house style", (entry.replace_value(item.path, styled),)))
         else:
             yield entry.finding(reference_house_style.rule, f"this reference differs from the house style; "
-                                f"rewrite it by hand (the automatic form would change {', '.join(lost)}): "
-                                f"{styled}", item.path)
+                                f"rewrite it by hand ({why}): {styled}", item.path)
