@@ -89,3 +89,11 @@ def test_evaluate_function_and_recursion_limit_restored():
     f = parse_formula("+".join(["k"] * 2000))
     assert evaluate(f.root.body, {"k": 2}) == 4000
     assert sys.getrecursionlimit() == before
+
+
+@pytest.mark.parametrize("text", ["phi_n", "phi_{n+1}", "a(n) = sigma_n^2"])
+def test_subscripted_term_with_function_name_round_trips(text):
+    # found by the hypothesis junk test: `phi_n` printed as `phi(n)` read back as the totient
+    f = parse_formula(text)
+    assert parse_formula(f.to_ascii()) == f
+    assert "(" not in f.to_ascii().split("=")[-1]

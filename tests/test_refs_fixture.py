@@ -58,6 +58,6 @@ def test_wild_sample_field_f1_floor():
 
 # Floors set a little under the measured values of the shipped model (micro F1
 # 0.795 rendered sample, 0.886 wild sample on 2026-12-02)
-# (see docs/developers-refs.md); a regression of the labeler trips them.
+# (see docs/dev/refs.md); a regression of the labeler trips them.
 RENDERED_FLOOR = 0.75
 WILD_FLOOR = 0.84

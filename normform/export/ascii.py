@@ -43,6 +43,16 @@ def level(node: A.Node) -> int:
     return ATOM
 
 
+# one-letter names whose subscript form the parser reads as the function (F_n is Fibonacci)
+_SUB_CALLS = frozenset("FLCHB")
+
+
+def _is_function(node: A.SeqRef) -> bool:
+    from normform.formula.functions import lookup
+
+    return lookup(node.name, len(node.indices)) is not None
+
+
 class AsciiPrinter(A.Visitor):
     """Walks a tree and returns its canonical ASCII text."""
 
@@ -141,6 +151,10 @@ class AsciiPrinter(A.Visitor):
         return f"{node.name}({', '.join(self.visit(a) for a in node.args)})"
 
     def visit_SeqRef(self, node):
+        if node.subscript and len(node.indices) == 1 and node.name not in _SUB_CALLS and _is_function(node):
+            # `phi_n` is a term named phi; written `phi(n)` it would read back as the function
+            inner = self.visit(node.indices[0])
+            return f"{node.name}_{inner}" if inner.isalnum() else f"{node.name}_{{{inner}}}"
         return f"{node.name}({', '.join(self.visit(a) for a in node.indices)})"
 
     def visit_BigOp(self, node):

@@ -215,6 +215,12 @@ _SERIES_TAIL = re.compile(r"(?:,|\.)\s+((?:[A-Z][\w'-]*\.?|of|in|and|for|der|de|
                           r"(?:\s+(?:[A-Z][\w'-]*\.?|of|in|and|for|der|de|des|the)){0,7})\Z")
 
 
+# series words beyond the feature lexicon (kept here so the shipped model's
+# features stay as trained)
+_SERIES_TAIL_WORDS = lx.SERIES_WORDS | frozenset(
+    "classics paperbacks library perspectives memoirs publications collection lehrbücher textbooks".split())
+
+
 def _series_tail(title: str, runs: dict) -> str | None:
     """A book title that swallowed the series printed after it ("Finite
     permutation groups, Academic Paperbacks" before the publisher): the
@@ -225,7 +231,7 @@ def _series_tail(title: str, runs: dict) -> str | None:
     if not m or m.start() < 8:
         return None
     words = m.group(1).split()
-    if len(words) < 2 or not any(w.lower() in lx.SERIES_WORDS for w in words):
+    if len(words) < 2 or not any(w.lower() in _SERIES_TAIL_WORDS for w in words):
         return None
     return title[m.start():]
 

@@ -298,7 +298,6 @@ ams soc. society association institute assoc. math. mathematical sciences ems
 SERIES_WORDS: frozenset[str] = frozenset("""
 lecture notes texts graduate studies series ser. grundlehren encyclopedia tracts monographs
 surveys universitext progress progr. contemporary contemp. colloquium ergebnisse lect. notes
-classics paperbacks library perspectives memoirs publications collection lehrbücher textbooks
 """.split())
 
 GENRE_WORDS: frozenset[str] = frozenset("""
