@@ -40,3 +40,11 @@ def test_long_adversarial_lines_are_fast(unit):
     assert (ref.confidence or 0.0) < 0.5
     # linear-time guard (issue requirement), generous for a shared machine
     assert elapsed < 1.0, f"{elapsed:.2f}s for a 100 kB line of {unit!r}"
+
+
+def test_parse_references_splits_a_string_into_lines_not_characters():
+    from normform import parse_references
+
+    refs = list(parse_references("A. Quill, On zigzags, Math. Mag. 79 (2006), 1-9.\nabc"))
+    assert len(refs) == 2
+    assert refs[1].provenance.raw == "abc"

@@ -72,7 +72,13 @@ def _junk_ratio(text: str) -> float:
 
 
 def parse_references(lines: Iterable[str]) -> Iterator[Reference]:
-    """One Reference per input line, in order (a generator: memory stays flat)."""
+    """One Reference per input line, in order (a generator: memory stays flat).
+
+    ``lines`` is any iterable of lines (an open file, a list); a single string
+    is taken as a block of text and split into its lines, not its characters.
+    """
+    if isinstance(lines, str):
+        lines = lines.splitlines()
     for line in lines:
         yield parse_reference(line.rstrip("\r\n") if isinstance(line, str) else line)
 
