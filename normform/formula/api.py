@@ -22,6 +22,10 @@ def parse_formula(text: str) -> "Formula":
     return Formula(text, _parse_statement(text))
 
 
+def _text_of(self: "Formula", *_: Any) -> str:
+    return self.text
+
+
 class Formula:
     """A parsed formula: the statement tree plus what it says.
 
@@ -72,37 +76,37 @@ class Formula:
         return _sequence_name(self.lhs)
 
     # -- structure
-    @A.deep
+    @A.deep(text=_text_of)
     def __eq__(self, other: object) -> bool:
         return isinstance(other, Formula) and self.root == other.root
 
-    @A.deep
+    @A.deep(text=_text_of)
     def __hash__(self) -> int:
         return hash(self.root)
 
     def __repr__(self) -> str:
         return f"Formula({self.text!r}, kind={self.kind!r})"
 
-    @A.deep
+    @A.deep(text=_text_of)
     def variables(self) -> list[str]:
         """Free variables (bound summation variables and sequence names excluded), sorted."""
         return sorted(A.free_symbols(self.root.body))
 
     # -- output
-    @A.deep
+    @A.deep(text=_text_of)
     def to_mathml(self, display: str = "block", semantics: bool = False) -> str:
         """Presentation MathML (MathML Core); ``semantics=True`` adds a Content MathML annotation."""
         from normform.export.mathml import MathMLPrinter
 
         return MathMLPrinter(display=display, semantics=semantics).document(self.root)
 
-    @A.deep
+    @A.deep(text=_text_of)
     def to_latex(self) -> str:
         from normform.export.latex import LatexPrinter
 
         return LatexPrinter().statement(self.root)
 
-    @A.deep
+    @A.deep(text=_text_of)
     def to_ascii(self) -> str:
         from normform.export.ascii import AsciiPrinter
 
@@ -119,7 +123,7 @@ class Formula:
         (40 significant digits) when the value is irrational."""
         return self.evaluate_at(values)
 
-    @A.deep
+    @A.deep(text=_text_of)
     def evaluate_at(self, values: dict[str, Any], *, digits: int = 40, side: int = -1, sequence=None):
         """Like :meth:`evaluate`, with the precision for irrational values and the side
         (0 = left, -1 = right) chosen; ``sequence(name, indices)`` supplies sequence terms."""
@@ -146,14 +150,14 @@ class Formula:
 
                 raise EvaluationError(f"outside the stated range: {AsciiPrinter().condition(cond)}")
 
-    @A.deep
+    @A.deep(text=_text_of)
     def terms(self, first_index: int, count: int, initial=None):
         """Terms a(first_index), ... (see :mod:`normform.formula.terms`)."""
         from normform.formula import terms as _terms
 
         return _terms.terms(self, first_index, count, initial)
 
-    @A.deep
+    @A.deep(text=_text_of)
     def series(self, count: int):
         """Generating-function coefficients (see :mod:`normform.formula.terms`)."""
         from normform.formula import terms as _terms

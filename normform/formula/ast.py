@@ -32,13 +32,22 @@ _deep_active = [0]
 _saved_limit: list = [None]
 
 
-def deep(func):
-    """Decorator: run ``func`` with room for DEEP_RECURSION frames (see above)."""
+SHALLOW_TEXT = 200
+"""Texts up to this length make trees shallow enough for the default limit."""
+
+
+def deep(func=None, *, text=None):
+    """Decorator: run ``func`` with room for DEEP_RECURSION frames (see above).
+    ``text(*args)``, when given, returns the formula text: short texts skip the change."""
+    if func is None:
+        return lambda f: deep(f, text=text)
     import functools
     import sys
 
     @functools.wraps(func)
     def wrapper(*args, **kwargs):
+        if text is not None and len(text(*args)) <= SHALLOW_TEXT:
+            return func(*args, **kwargs)
         # the first call in raises the limit, the last one out restores it (calls nest,
         # and may overlap across threads)
         if _deep_active[0] == 0:

@@ -1423,7 +1423,7 @@ def _lark_error(text: str, exc: Exception) -> FormulaError:
 
 # ------------------------------------------------------------ entry ---------
 
-@A.deep
+@A.deep(text=lambda text: text if isinstance(text, str) else "")
 def parse_statement(text: str) -> A.Statement:
     """Parse one formula line into a :class:`Statement`; raise :class:`FormulaError`."""
     if not isinstance(text, str):
