@@ -250,3 +250,13 @@ def test_identities_check_both_sides():
     assert v.status == "agrees" and "both sides" in v.reason
     v = check_formula("Sum_{k=0..n} binomial(n,k)^2 = 2^n", [1, 2, 4, 8, 16])
     assert v.status == "disagrees" and v.index == 2 and "left side" in v.reason
+
+
+def test_long_flat_chains_are_checked_not_refused():
+    # a 700-term sum is long, not deep: it must be computed (values by hand: n*700 + 1)
+    from normform import check_formula
+
+    assert check_formula("n+" * 700 + "1", [1, 701, 1401]).status == "agrees"
+    rec = "a(n)=" + "a(n-1)+" * 700 + "1"
+    assert check_formula(rec, [1, 701, 490701]).status == "agrees"
+    assert check_formula(rec, [1, 701, 490700]).status == "disagrees"

@@ -138,6 +138,11 @@ def _compare(listed: dict[int, Number], computed: Mapping[int, Number], kind: st
 
 # ------------------------------------------------------------------ checks ---
 
+def _formula_text(formula: Any, *_: Any) -> str:
+    return formula if isinstance(formula, str) else getattr(formula, "text", "")
+
+
+@A.deep(text=_formula_text)  # long flat chains (a 700-term sum) need deep tree walks
 def check_formula(formula: Any, terms: Sequence[Any] | Mapping[int, Any], first_index: int = 0, *,
                   initial: Any = None, kind: str | None = None,
                   limits: R.Limits | None = None) -> Verdict:
