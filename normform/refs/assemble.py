@@ -35,6 +35,25 @@ _KIND_WORDS = re.compile(
     r"|(?P<report>technical report|tech\.? rep|report|preprint|lecture notes|course notes|notes))\b")
 _THESIS = re.compile(r"(?i)\b(?:ph\.?\s?d\.?|doctoral|master'?s|habilitation|diplom|thesis|dissertation|tesis)\b")
 _REPORT = re.compile(r"(?i)\b(?:technical report|tech\.? rep|report|preprint|lecture notes|course notes|notes)\b")
+# The same alternatives, case-sensitive, run over the lower-cased line (much
+# faster than (?i)); the lookahead rejects positions that start no keyword.
+# Valid only when lower-casing maps character to character and no character
+# outside ASCII case-folds onto an ASCII letter (the (?i) oddities below).
+_KIND_WORDS_LOWER = re.compile(r"\b(?=[cdfghilmnprstuv])" + _KIND_WORDS.pattern.replace("(?i)\\b", "", 1))
+_CASE_ODD = re.compile("[\u0130\u0131\u017f\u212a]")
+
+
+def _kind_words(text: str) -> dict[str, str]:
+    found: dict[str, str] = {}
+    if _CASE_ODD.search(text):
+        for m in _KIND_WORDS.finditer(text):
+            found.setdefault(m.lastgroup, m.group().lower())
+        return found
+    for m in _KIND_WORDS_LOWER.finditer(text.lower()):
+        found.setdefault(m.lastgroup, m.group())
+    return found
+
+
 _PROC = re.compile(r"(?i)\b(?:proc\.|proceedings|conference|symposium|workshop|congress|colloquium|meeting)\b")
 
 
@@ -58,6 +77,13 @@ def clean_text(text: str) -> str:
     is already NFC, so plain text takes the fast path.)"""
     if not _NEEDS_CLEAN.search(text):
         return text.strip()
+    return _clean_tex(text)
+
+
+@lru_cache(maxsize=20_000)
+def _clean_tex(text: str) -> str:
+    # pure function of the text; journal names, publishers and TeX-laden
+    # titles recur across a batch, and pylatexenc is the slowest step here
     text = _MARKUP.sub("", text)
     if _TEX_HINT.search(text):
         try:
@@ -78,7 +104,8 @@ def _strip_field(field: str, text: str) -> str:
         if out.count(o) > out.count(c) and text.rstrip(" .,;:").endswith(c):
             out += c
     if keep_dot and out:
-        last = out.split()[-1] if out.split() else ""
+        words = out.split()
+        last = words[-1] if words else ""
         if len(last) <= 6 or (last + ".").lower() in lx.JOURNAL_WORDS:
             out += "."
     if field == "title" and out.endswith("?") is False and text.strip().endswith("?"):
@@ -95,13 +122,15 @@ class _Run:
 
 def _runs(tokens: list[Token], labels: list[str], marg: list[float]) -> list[_Run]:
     runs: list[_Run] = []
-    for i, lab in enumerate(labels):
-        if runs and runs[-1].label == lab and runs[-1].last == i - 1:
-            r = runs[-1]
-            r.last = i
-            r.conf = min(r.conf, marg[i])
-        else:
-            runs.append(_Run(lab, i, i, marg[i]))
+    n = len(labels)
+    i = 0
+    while i < n:
+        lab = labels[i]
+        j = i + 1
+        while j < n and labels[j] == lab:
+            j += 1
+        runs.append(_Run(lab, i, j - 1, marg[i] if j == i + 1 else min(marg[i:j])))
+        i = j
     # merge runs of one label separated only by "O" punctuation (a quote, a bracket)
     merged: list[_Run] = []
     for r in runs:
@@ -493,9 +522,7 @@ def assemble(text: str, tokens: list[Token], labels: list[str], marg: list[float
         infos = [FieldInfo("series", round(i.confidence * 0.8, 4), i.span) if i.field == "container_title" else i
                  for i in infos]
 
-    found: dict[str, str] = {}
-    for m in _KIND_WORDS.finditer(text):
-        found.setdefault(m.lastgroup, m.group().lower())
+    found = _kind_words(text)
     # Literal dates written in words: "to appear", "in press"
     if "date" not in values and found.get("unpub") in ("to appear", "in press", "forthcoming", "submitted",
                                                         "in preparation"):
@@ -529,6 +556,9 @@ def assemble(text: str, tokens: list[Token], labels: list[str], marg: list[float
     )
 
 
+_IN_WORD = re.compile(r"(?:^|[.,]\s*)In[: ]")
+
+
 def _kind(text: str, v: dict, idents: list[Identifier], found: dict[str, str]) -> Kind:
     genre = v.get("genre") or ""
     if (genre and _THESIS.search(genre)) or (not v.get("container_title") and "thesis" in found):
@@ -539,7 +569,7 @@ def _kind(text: str, v: dict, idents: list[Identifier], found: dict[str, str]) -
         return Kind.SOFTWARE
     container = v.get("container_title") or ""
     if container:
-        if v.get("editors") or re.search(r"(?:^|[.,]\s*)In[: ]", text):
+        if v.get("editors") or _IN_WORD.search(text):
             return Kind.PAPER if _PROC.search(container) else Kind.CHAPTER
         if _PROC.search(container) and not v.get("volume"):
             return Kind.PAPER

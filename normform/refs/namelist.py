@@ -32,6 +32,16 @@ _CORPORATE = re.compile(
     r"editors|institute|association|council|foundation|office|bureau|collaboration|working)\b")
 
 
+# A match of _SEP needs one of these (see its alternatives).
+_SEP_GATE = re.compile(r"[;&]|and|\s(?:und|et|y|e)\s")
+_CORPORATE_WORDS = ("group", "society", "committee", "project", "authors", "community", "team", "consortium",
+                    "collective", "editors", "institute", "association", "council", "foundation", "office",
+                    "bureau", "collaboration", "working")
+# non-ASCII characters that re.IGNORECASE folds onto ASCII letters (dotted
+# and dotless i, long s, Kelvin sign): with one of them, skip the gates
+_CASE_ODD = re.compile("[\u0130\u0131\u017f\u212a]")
+
+
 def _is_initials(piece: str) -> bool:
     words = piece.split()
     return bool(words) and all(_INITIAL_ONLY.match(w) for w in words)
@@ -62,13 +72,22 @@ def split_names(text: str) -> tuple[tuple[Name, ...], bool]:
     if m:
         etal = True
         text = text[: m.start()]
-    text = _ROLE.sub(" ", text).strip(" ,;:")
+    # cheap necessary conditions first: most lists have no role word, no
+    # corporate word and often no separator, and the full patterns are slow
+    odd = not text.isascii() and _CASE_ODD.search(text) is not None
+    low = text.lower()
+    if odd or "ed" in low or "trans" in low or "hrsg" in low:
+        text = _ROLE.sub(" ", text)
+    text = text.strip(" ,;:")
     if not text:
         return (), etal
-    if _CORPORATE.search(text) and not _SEP.search(text):
+    has_sep = _SEP_GATE.search(text) is not None
+    low = text.lower()
+    if (odd or low.startswith("the") or any(w in low for w in _CORPORATE_WORDS)) \
+            and _CORPORATE.search(text) and not (has_sep and _SEP.search(text)):
         # "QSEM Working Group", "The Stacks Project Authors": one literal name
         return (Name(literal=text),), etal
-    groups = [g.strip(" ,") for g in _SEP.split(text) if g and g.strip(" ,")]
+    groups = [g.strip(" ,") for g in (_SEP.split(text) if has_sep else (text,)) if g and g.strip(" ,")]
     chunks: list[str] = []
     for g in groups:
         chunks.extend(c.strip() for c in g.split(",") if c.strip())
