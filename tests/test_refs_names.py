@@ -61,3 +61,11 @@ def test_suffix_kept():
     # pybtex's "Last, Jr, First" form gives the same parts
     p = Person("Quillfeather, Jr., John")
     assert p.lineage_names == ["Jr."] and p.last_names == [n.family]
+
+
+def test_a_list_of_only_separators_gives_no_names():
+    from normform.refs.namelist import split_names
+
+    for text in ("and", "&", " and ", ";"):
+        names, _ = split_names(text)
+        assert names == ()

@@ -88,6 +88,8 @@ def split_names(text: str) -> tuple[tuple[Name, ...], bool]:
         # "QSEM Working Group", "The Stacks Project Authors": one literal name
         return (Name(literal=text),), etal
     groups = [g.strip(" ,") for g in (_SEP.split(text) if has_sep else (text,)) if g and g.strip(" ,")]
+    if not groups:  # only separators ("and", "&"): no names at all
+        return (), etal
     chunks: list[str] = []
     for g in groups:
         chunks.extend(c.strip() for c in g.split(",") if c.strip())
