@@ -38,3 +38,19 @@ def test_stdin(monkeypatch, capsys):
 
 def test_missing_file_is_usage_error(tmp_path, capsys):
     assert main(["refs", str(tmp_path / "nope.txt")]) == 2
+
+
+def test_refs_command_strips_a_bom_and_reports_invalid_utf8(tmp_path):
+    import subprocess
+    import sys
+
+    src = tmp_path / "in.txt"
+    src.write_bytes(b"\xef\xbb\xbfA. Quill, On zigzags, Math. Mag. 79 (2006), 1-9.\nB. Pell, Caf\xe9 numbers.\n")
+    proc = subprocess.run([sys.executable, "-m", "normform", "refs", str(src), "--to", "csl-json"],
+                          capture_output=True, text=True)
+    rows = [json.loads(line) for line in proc.stdout.splitlines()]
+    assert len(rows) == 2                                   # nothing dropped
+    assert rows[0]["custom"]["raw"].startswith("A. Quill")   # no BOM in the raw text
+    assert "\ufffd" in rows[1]["custom"]["raw"]               # kept, with a replacement character
+    assert f"{src}:2: invalid UTF-8 at byte offset" in proc.stderr
+    assert proc.returncode == 1

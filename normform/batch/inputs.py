@@ -24,6 +24,8 @@ from dataclasses import dataclass, field
 from pathlib import Path
 from typing import Iterator
 
+from normform.textlines import decode_line, physical_lines
+
 TEXT, JSONL, ENTRY = "text", "jsonl", "entry"
 ENTRY_SUFFIXES = (".toml", ".json")
 JSONL_SUFFIXES = (".jsonl", ".ndjson")
@@ -111,26 +113,18 @@ def fingerprint(paths: list[Path]) -> list[list]:
 
 
 def _decode(raw: bytes, file: str, lineno: int, offset: int, stats: ReadStats) -> tuple[str, tuple]:
-    try:
-        return raw.decode("utf-8"), ()
-    except UnicodeDecodeError as exc:
-        where = offset + exc.start
-        if len(stats.invalid_utf8) < KEEP:
-            stats.invalid_utf8.append((file, lineno, where))
-        return raw.decode("utf-8", errors="replace"), (("invalid_utf8", where),)
+    text, where = decode_line(raw, offset)
+    if where is None:
+        return text, ()
+    if len(stats.invalid_utf8) < KEEP:
+        stats.invalid_utf8.append((file, lineno, where))
+    return text, (("invalid_utf8", where),)
 
 
 def _physical_lines(path: Path) -> Iterator[tuple[int, int, bytes]]:
     """(1-based line number, byte offset of the line, bytes without EOL)."""
-    offset = 0
     with open(path, "rb") as handle:
-        for lineno, raw in enumerate(handle, start=1):
-            start = offset
-            offset += len(raw)
-            body = raw.rstrip(b"\n").rstrip(b"\r")
-            if lineno == 1 and body.startswith(b"\xef\xbb\xbf"):   # UTF-8 BOM
-                body, start = body[3:], start + 3
-            yield lineno, start, body
+        yield from physical_lines(handle)
 
 
 def read_text(path: Path, stats: ReadStats) -> Iterator[Item]:

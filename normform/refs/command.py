@@ -44,39 +44,57 @@ def to_csl(ref, index: int, exporter=None) -> dict:
     return item
 
 
-def _lines(path: str):
+def _lines(path: str, problems: list):
+    """Decoded lines; invalid UTF-8 is kept (replacement characters) and reported."""
+    from normform.textlines import decode_line, physical_lines
+
     if path == "-":
-        yield from sys.stdin
-        return
+        handle = getattr(sys.stdin, "buffer", None)
+        if handle is None:  # a text stream without bytes underneath (embedding, tests)
+            for line in sys.stdin:
+                yield line.rstrip("\r\n")
+            return
+    else:
+        try:
+            handle = open(path, "rb")
+        except OSError as exc:
+            from normform.cli import UsageError
+            raise UsageError(f"cannot read {path}: {exc.strerror}") from exc
+    name = "<stdin>" if path == "-" else path
     try:
-        fh = open(path, encoding="utf-8", errors="replace")
-    except OSError as exc:
-        from normform.cli import UsageError
-        raise UsageError(f"cannot read {path}: {exc.strerror}") from exc
-    with fh:
-        yield from fh
+        for lineno, offset, raw in physical_lines(handle):
+            text, bad = decode_line(raw, offset)
+            if bad is not None:
+                problems.append(lineno)
+                print(f"{name}:{lineno}: invalid UTF-8 at byte offset {bad}; kept, decoded with "
+                      "replacement characters", file=sys.stderr)
+            yield text
+    finally:
+        if path != "-":
+            handle.close()
 
 
 def run(args: argparse.Namespace) -> int:
     from normform.refs.api import parse_references
 
     out = sys.stdout
-    lines = _lines(args.file)
+    problems: list[int] = []
+    lines = _lines(args.file, problems)
     if args.to == "csl-json":
         from normform.export.csljson import CslJsonExporter
         exporter = CslJsonExporter()
         for n, ref in enumerate(parse_references(lines), 1):
             out.write(json.dumps(to_csl(ref, n, exporter), ensure_ascii=False) + "\n")
-        return 0
+        return 1 if problems else 0
     if args.to == "bibtex":
         from normform.export.bibtex import BibtexExporter
         exporter = BibtexExporter()
         for n, ref in enumerate(parse_references(lines), 1):
             out.write(exporter.record(ref, f"line{n}").rstrip("\n") + "\n\n")
-        return 0
+        return 1 if problems else 0
     from normform.export.text import HouseStyle
     style = HouseStyle()
     for ref in parse_references(lines):
         # one output line per input line, even when the record is empty
         out.write(" ".join(style.record(ref).split()) + "\n")
-    return 0
+    return 1 if problems else 0
