@@ -127,7 +127,8 @@ def _physical_lines(path: Path) -> Iterator[tuple[int, int, bytes]]:
         yield from physical_lines(handle)
 
 
-def read_text(path: Path, stats: ReadStats) -> Iterator[Item]:
+def _counted_lines(path: Path, stats: ReadStats) -> Iterator[tuple[str, int, str, tuple]]:
+    """(file name, line number, decoded text, flags) of each non-blank line; every line is counted."""
     name = str(path)
     for lineno, start, body in _physical_lines(path):
         stats.lines += 1
@@ -135,17 +136,16 @@ def read_text(path: Path, stats: ReadStats) -> Iterator[Item]:
             stats.blank += 1
             continue
         text, flags = _decode(body, name, lineno, start, stats)
+        yield name, lineno, text, flags
+
+
+def read_text(path: Path, stats: ReadStats) -> Iterator[Item]:
+    for name, lineno, text, flags in _counted_lines(path, stats):
         yield Item("ref", text.strip(), name, lineno, flags=flags)
 
 
 def read_jsonl(path: Path, stats: ReadStats) -> Iterator[Item]:
-    name = str(path)
-    for lineno, start, body in _physical_lines(path):
-        stats.lines += 1
-        if not body.strip():
-            stats.blank += 1
-            continue
-        text, flags = _decode(body, name, lineno, start, stats)
+    for name, lineno, text, flags in _counted_lines(path, stats):
         try:
             obj = json.loads(text)
         except json.JSONDecodeError as exc:

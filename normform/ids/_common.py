@@ -20,6 +20,15 @@ class InvalidIdentifier(PositionedError):
                          expected=expected, offending=raw)
 
 
+def passes(validate, text: str) -> bool:
+    """True when ``validate(text)`` accepts it: the body of every scheme's ``is_valid``."""
+    try:
+        validate(text)
+    except InvalidIdentifier:
+        return False
+    return True
+
+
 def strip_prefix(text: str, prefixes: tuple[str, ...]) -> str:
     """Remove the first matching prefix, compared case-insensitively."""
     low = text.lower()

@@ -12,7 +12,7 @@ from __future__ import annotations
 
 import re
 
-from normform.ids._common import InvalidIdentifier, link_from_config, strip_prefix
+from normform.ids._common import InvalidIdentifier, link_from_config, strip_prefix, passes
 
 # Archives of the old scheme (from memory of the arXiv identifier documentation).
 ARCHIVES = frozenset("""
@@ -84,11 +84,7 @@ def validate(s: str) -> str:
 
 
 def is_valid(s: str) -> bool:
-    try:
-        validate(s)
-    except InvalidIdentifier:
-        return False
-    return True
+    return passes(validate, s)
 
 
 def base(s: str) -> str:

@@ -11,7 +11,7 @@ from __future__ import annotations
 import re
 from urllib.parse import quote, unquote
 
-from normform.ids._common import InvalidIdentifier, link_from_config, strip_prefix
+from normform.ids._common import InvalidIdentifier, link_from_config, strip_prefix, passes
 
 _PREFIXES = (
     "https://doi.org/", "http://doi.org/", "https://dx.doi.org/", "http://dx.doi.org/",
@@ -58,11 +58,7 @@ def validate(s: str) -> str:
 
 
 def is_valid(s: str) -> bool:
-    try:
-        validate(s)
-    except InvalidIdentifier:
-        return False
-    return True
+    return passes(validate, s)
 
 
 def key(s: str) -> str:

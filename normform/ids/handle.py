@@ -5,7 +5,7 @@ from __future__ import annotations
 import re
 from urllib.parse import quote, unquote
 
-from normform.ids._common import InvalidIdentifier, link_from_config, strip_prefix
+from normform.ids._common import InvalidIdentifier, link_from_config, strip_prefix, passes
 
 _RE = re.compile(r"\d+(?:\.\d+)*+/\S+")
 _PREFIXES = ("https://hdl.handle.net/", "http://hdl.handle.net/", "hdl.handle.net/", "hdl:", "handle:")
@@ -36,11 +36,7 @@ def validate(s: str) -> str:
 
 
 def is_valid(s: str) -> bool:
-    try:
-        validate(s)
-    except InvalidIdentifier:
-        return False
-    return True
+    return passes(validate, s)
 
 
 def format(s: str) -> str:  # noqa: A001

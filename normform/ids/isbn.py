@@ -5,7 +5,7 @@ from __future__ import annotations
 from stdnum import isbn as _isbn
 from stdnum.exceptions import ValidationError
 
-from normform.ids._common import InvalidIdentifier, strip_prefix
+from normform.ids._common import InvalidIdentifier, strip_prefix, passes
 
 
 def compact(s: str) -> str:
@@ -49,11 +49,7 @@ def validate(s: str) -> str:
 
 
 def is_valid(s: str) -> bool:
-    try:
-        validate(s)
-    except InvalidIdentifier:
-        return False
-    return True
+    return passes(validate, s)
 
 
 def to_isbn13(s: str) -> str:

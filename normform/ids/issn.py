@@ -5,7 +5,7 @@ from __future__ import annotations
 from stdnum import issn as _issn
 from stdnum.exceptions import ValidationError
 
-from normform.ids._common import InvalidIdentifier, link_from_config, strip_prefix
+from normform.ids._common import InvalidIdentifier, link_from_config, strip_prefix, passes
 
 RESOLVER = "https://portal.issn.org/resource/ISSN/"  # the ISSN International Centre's portal (common practice)
 
@@ -35,11 +35,7 @@ def validate(s: str) -> str:
 
 
 def is_valid(s: str) -> bool:
-    try:
-        validate(s)
-    except InvalidIdentifier:
-        return False
-    return True
+    return passes(validate, s)
 
 
 def format(s: str) -> str:  # noqa: A001

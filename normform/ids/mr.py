@@ -14,7 +14,7 @@ from __future__ import annotations
 
 import re
 
-from normform.ids._common import InvalidIdentifier, link_from_config
+from normform.ids._common import InvalidIdentifier, link_from_config, passes
 
 _NUMBER_RE = re.compile(r"\d{1,8}")
 REVIEW_RE = re.compile(r"(\d{2}|\d{4})([a-l]?)\s*:\s*(\d{1,6}[a-z]?)|(\d{1,3})\s*#\s*(\d{1,6}[a-z]?)")
@@ -72,11 +72,7 @@ def validate(s: str) -> str:
 
 
 def is_valid(s: str) -> bool:
-    try:
-        validate(s)
-    except InvalidIdentifier:
-        return False
-    return True
+    return passes(validate, s)
 
 
 def format(s: str) -> str:  # noqa: A001

@@ -7,7 +7,7 @@ from __future__ import annotations
 
 import re
 
-from normform.ids._common import InvalidIdentifier
+from normform.ids._common import InvalidIdentifier, passes
 
 # RFC 3986: scheme = ALPHA *( ALPHA / DIGIT / "+" / "-" / "." )
 _SCHEME_RE = re.compile(r"[A-Za-z][A-Za-z0-9+.\-]*")
@@ -52,11 +52,7 @@ def validate(s: str) -> str:
 
 
 def is_valid(s: str) -> bool:
-    try:
-        validate(s)
-    except InvalidIdentifier:
-        return False
-    return True
+    return passes(validate, s)
 
 
 def format(s: str) -> str:  # noqa: A001

@@ -13,7 +13,7 @@ from __future__ import annotations
 
 import re
 
-from normform.ids._common import InvalidIdentifier, link_from_config
+from normform.ids._common import InvalidIdentifier, link_from_config, passes
 
 ZBL_RE = re.compile(r"(\d{3,4})\.(\d{5})")
 DOC_RE = re.compile(r"0\d{7}")
@@ -59,11 +59,7 @@ def validate(s: str) -> str:
 
 
 def is_valid(s: str) -> bool:
-    try:
-        validate(s)
-    except InvalidIdentifier:
-        return False
-    return True
+    return passes(validate, s)
 
 
 def format(s: str) -> str:  # noqa: A001

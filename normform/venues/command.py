@@ -225,18 +225,25 @@ def _bibtex(text: str, run: Run, path: str) -> str:
     return replace_values(text, changes) if changes else text
 
 
-def run(args: argparse.Namespace) -> int:
+def read_input(path: str, output: str | None) -> str:
+    """The text of INPUT, refusing an ``-o`` that names the input itself (never overwrite it)."""
     from normform.cli import UsageError
+
+    src = Path(path)
+    if output and src.exists() and Path(output).resolve() == src.resolve():
+        raise UsageError("refusing to overwrite INPUT; give another -o OUT")
+    try:
+        return src.read_text("utf-8")
+    except OSError as exc:
+        raise UsageError(f"cannot read {path}: {exc.strerror}") from None
+
+
+def run(args: argparse.Namespace) -> int:
     from normform.errors import PositionedError
     from normform.venues.style import VenueStyle
 
     src = Path(args.input)
-    if args.output and src.exists() and Path(args.output).resolve() == src.resolve():
-        raise UsageError("refusing to overwrite INPUT; give another -o OUT")
-    try:
-        text = src.read_text("utf-8")
-    except OSError as exc:
-        raise UsageError(f"cannot read {args.input}: {exc.strerror}") from None
+    text = read_input(args.input, args.output)
     try:
         style = VenueStyle(house=house_table(args.table))
     except PositionedError as exc:

@@ -66,17 +66,13 @@ def run(args: argparse.Namespace) -> int:
     from normform.cli import UsageError
     from normform.errors import PositionedError
     from normform.venues.library import to_bibtex
+    from normform.venues.command import read_input
     from normform.venues.match import AuthorityMatcher
 
     if not 0.0 <= args.threshold <= 1.0:
         raise UsageError(f"--threshold must be between 0 and 1, not {args.threshold}")
     src = Path(args.input)
-    if args.output and src.exists() and Path(args.output).resolve() == src.resolve():
-        raise UsageError("refusing to overwrite INPUT; give another -o OUT")
-    try:
-        text = src.read_text("utf-8")
-    except OSError as exc:
-        raise UsageError(f"cannot read {args.input}: {exc.strerror}") from None
+    text = read_input(args.input, args.output)
     skipped: list[PositionedError] = []
 
     def skip(exc: PositionedError) -> None:
