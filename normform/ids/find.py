@@ -118,22 +118,31 @@ def _from_url(url: str) -> tuple[str, str, str | None]:
     return "url", url, None
 
 
-# A literal each pattern cannot match without (checked on the lower-cased
-# line): skipping patterns whose anchor is absent is much cheaper than
-# running them.  Only for ASCII lines: with re.I a few non-ASCII letters
-# (U+0130, U+0131, U+017F, U+212A) match ASCII ones, so other lines run all.
-_ANCHORS: tuple[tuple[str, ...], ...] = (
-    ("://", "www."), ("10.",), ("arxiv",), ("/",), (".",), ("[",), ("corr",), ("mr",), ("zbl",), ("jfm",),
+# A gate for each pattern: literals it cannot match without (checked on the
+# lower-cased line) or a cheap regex it cannot match without.  Skipping
+# patterns whose gate is shut is much cheaper than running them.  With re.I a
+# few non-ASCII letters (U+0130, U+0131, U+017F, U+212A) match ASCII ones, so
+# lines holding them open every literal gate.
+_ANCHORS: tuple[tuple[str, ...] | re.Pattern[str], ...] = (
+    ("://", "www."), re.compile(r"10\.\d{4}"), ("arxiv",), re.compile(r"/\d{7}"),
+    re.compile(r"\d{4}\.\d{4}"), re.compile(r"\d{4}\.\d{4}"), ("corr",), ("mr",), ("zbl",), ("jfm",),
     ("issn",), ("hdl",),
 )
 assert len(_ANCHORS) == len(_PATTERNS)
+_FOLDS_TO_ASCII = re.compile("[\u0130\u0131\u017f\u212a]")
+
+
+def _open(gate: tuple[str, ...] | re.Pattern[str], text: str, low: str | None) -> bool:
+    if isinstance(gate, re.Pattern):
+        return gate.search(text) is not None
+    return low is None or any(a in low for a in gate)
 
 
 def find_all(text: str) -> list[tuple[Identifier, Span]]:
     found: list[tuple[int, int, int, Identifier]] = []
-    low = text.lower() if text.isascii() else None
-    for (scheme, pattern, group, detail_group), anchors in zip(_PATTERNS, _ANCHORS):
-        if low is not None and not any(a in low for a in anchors):
+    low = None if _FOLDS_TO_ASCII.search(text) else text.lower()
+    for (scheme, pattern, group, detail_group), gate in zip(_PATTERNS, _ANCHORS):
+        if not _open(gate, text, low):
             continue
         for m in pattern.finditer(text):
             start, end = m.start(), m.end()
