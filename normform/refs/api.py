@@ -15,7 +15,13 @@ from normform.model import Provenance, Reference
 from normform.refs.tokens import MAX_TOKENS, tokenize
 
 # Control characters other than tab become spaces; that keeps offsets equal.
+# Two exceptions, which drop characters (spans then refer to the cleaned
+# text, as for NFC): terminal colour codes (ESC [ ... m) copied from a
+# console go whole, and a control character between two letters is a
+# transmission error inside a word ("Feather\x01stone"), not a word break.
 _CONTROL = re.compile(r"[\x00-\x08\x0b-\x1f\x7f-\x9f\ufffd]")
+_TERMINAL_CODE = re.compile(r"\x1b\[[0-?]{0,32}[ -/]{0,8}[@-~]")
+_IN_WORD_CONTROL = re.compile(r"(?<=[^\W\d_])[\x00-\x08\x0b-\x1f\x7f-\x9f]++(?=[^\W\d_])")
 _PREFIX_LABEL = re.compile(r"\s*(?:\[[^\]\s]{1,12}\]|\d{1,4}[.)]|\(\d{1,4}\))\s+")
 
 
@@ -35,7 +41,8 @@ def parse_reference(text: str) -> Reference:
         text = text.decode("utf-8", "replace") if isinstance(text, (bytes, bytearray)) else str(text)
     raw = text
     work = text.rstrip("\r\n")
-    work = _CONTROL.sub(" ", work)
+    if _CONTROL.search(work):
+        work = _CONTROL.sub(" ", _IN_WORD_CONTROL.sub("", _TERMINAL_CODE.sub("", work)))
     if not work.strip():
         return _empty(raw)
     # an enumeration label ("[12]", "3.") is not part of the reference

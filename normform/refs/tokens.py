@@ -9,6 +9,7 @@ pylatexenc afterwards.  Every pattern is linear: no nested quantifiers.
 from __future__ import annotations
 
 import re
+from functools import lru_cache
 from typing import NamedTuple
 
 from normform.model import Identifier
@@ -17,10 +18,19 @@ from normform.model import Identifier
 # and the labeler fast on junk).
 MAX_TOKENS = 400
 
+# TeX accents inside a word (``Erd\\H{o}s``, ``Qu\\"{o}llmann``, ``{\\'E}mile``,
+# ``\\ss``) belong to the word: split there, a name falls apart.  Such a word
+# token carries its Unicode spelling (see _tex_word); its offsets stay those of
+# the typed text.
+_ACCENT = (r"\\[`'^\"~=.](?:\{\\?[A-Za-z]\}|\\?[A-Za-z])"
+           r"|\\[uvHckbdrt](?:\{\\?[A-Za-z]\}| \\?[A-Za-z])"
+           r"|\\(?:ss|ae|AE|oe|OE|aa|AA|o|O|l|L|i|j)(?![A-Za-z])(?:\{\}| (?=[^\W\d_]))?")
+_WORD = r"(?:[^\W\d_]++|" + _ACCENT + r"|\{(?:" + _ACCENT + r")\})++"
+
 _TOKEN_RE = re.compile(
-    r"(?P<tex>\\[A-Za-z]+\*?|\\[^A-Za-z\s])"
-    r"|(?P<initial>[^\W\d_]\.)"
-    r"|(?P<word>[^\W\d_]+(?:['’][^\W\d_]+)*)"
+    r"(?P<initial>(?:[^\W\d_]|" + _ACCENT + r"|\{(?:" + _ACCENT + r")\})\.)"
+    r"|(?P<word>" + _WORD + r"(?:['’](?:" + _WORD + r"))*+)"
+    r"|(?P<tex>\\[A-Za-z]+\*?|\\[^A-Za-z\s])"
     r"|(?P<num>\d+)"
     r"|(?P<dash>-{1,3}|[–—])"
     r"|(?P<punct>\S)"
@@ -39,6 +49,12 @@ class Token(NamedTuple):
     ident: Identifier | None = None
 
 
+@lru_cache(maxsize=4096)
+def _tex_word(tex: str) -> str:
+    from normform.texconv import to_unicode
+    return to_unicode(tex) or tex
+
+
 def _plain(text: str, lo: int, hi: int, out: list[Token], limit: int) -> None:
     room = limit - len(out)
     if room <= 0:
@@ -47,7 +63,11 @@ def _plain(text: str, lo: int, hi: int, out: list[Token], limit: int) -> None:
     make = Token._make   # tuple.__new__ directly: skips the NamedTuple __new__ wrapper
     for m in _TOKEN_RE.finditer(text, lo, hi):
         s, e = m.span()
-        append(make((m.group(), s, e, m.lastgroup, None)))
+        t = m.group()
+        kind = m.lastgroup
+        if "\\" in t and kind != "tex" and len(t) < 80:   # a longer "word" is junk: leave it raw
+            t = _tex_word(t)
+        append(make((t, s, e, kind, None)))
         room -= 1
         if not room:
             return
