@@ -50,3 +50,14 @@ def test_mr_and_zbl():
     ref = parse_reference("A. Quill, Trees, J. Quill. Math. 3 (1999), 1-9. MR1234567 (2000a:05001) Zbl 0829.68111")
     assert ref.ident("mr") is not None and ref.ident("mr").value.lstrip("0") == "1234567"
     assert ref.ident("zbl").value == "0829.68111"
+
+
+def test_arxiv_doi_also_gives_the_arxiv_id():
+    # arXiv registers DOIs of the form 10.48550/arXiv.<id> for its preprints
+    # (arXiv's DOI help page, info.arxiv.org/help/doi.html; from memory).
+    from normform import parse_reference
+    ref = parse_reference("A. Quill, Ink walks on nib lattices, 2021, doi:10.48550/arXiv.2101.00001.")
+    assert ref.ident("doi").value == "10.48550/arXiv.2101.00001"
+    assert ref.ident("arxiv").value == "2101.00001"
+    plain = parse_reference("A. Quill, Ink walks on nib lattices, 2021, doi:10.1000/quill.2021.7.")
+    assert plain.ident("arxiv") is None

@@ -60,12 +60,27 @@ def parse_reference(text: str) -> Reference:
         return _empty(raw)
     labels, marg, prob = label(tokens, work)
     ref = assemble(work, tokens, labels, marg, prob, truncated=truncated)
+    ref = _implied_ids(ref)
     if ref.provenance is not None and ref.provenance.raw != raw:
         ref = ref.replace(provenance=Provenance(raw=raw, fields=ref.provenance.fields,
                                                 confidence=ref.provenance.confidence))
     if _junk_ratio(work) > 0.3:
         ref = ref.replace(provenance=Provenance(raw=raw, fields=ref.provenance.fields,
                                                 confidence=min(ref.provenance.confidence or 0, 0.1)))
+    return ref
+
+
+def _implied_ids(ref: Reference) -> Reference:
+    """An arXiv DOI (``10.48550/arXiv.2101.00001``) names the arXiv preprint
+    too (arXiv's DOI scheme): record the arXiv id beside it, once."""
+    dois = ref.idents("doi")
+    if not dois or ref.ident("arxiv"):
+        return ref
+    from normform.ids import arxiv, make
+    for d in dois:
+        found = arxiv.from_doi(d.value)
+        if found:
+            return ref.replace(identifiers=ref.identifiers + (make("arxiv", found),))
     return ref
 
 
