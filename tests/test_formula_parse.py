@@ -234,3 +234,78 @@ def test_table_driver_lexer_agrees_with_lark_on_character_soup():
         P._parser = driver
     assert sum(not isinstance(o, tuple) for o in ours) > 50  # some of the soup does parse
     assert ours == theirs
+
+
+def _full(node):
+    """A node with EVERY field, spans and spellings included (== leaves those out)."""
+    import dataclasses
+
+    if isinstance(node, A.Node):
+        return (type(node).__name__,) + tuple((f.name, _full(getattr(node, f.name))) for f in dataclasses.fields(node))
+    if isinstance(node, tuple):
+        return tuple(_full(i) for i in node)
+    return node
+
+
+def test_plain_arithmetic_shortcut_agrees_with_the_tables():
+    # The table driver reads plain ASCII arithmetic (numbers, names, + - * / ^ ** mod,
+    # brackets, calls, ! and !!) with a shortcut that calls the same grammar callbacks; on
+    # random text of that alphabet it must give the very same trees (spans included), and
+    # leave every error to the tables (same message, line, column, expected).
+    import random
+
+    from normform.formula import parser as P
+
+    driver = P._get_parser()
+    fast = driver.fast
+    assert fast is not None
+    rng = random.Random(5)
+    pieces = ["n", "k", "x", "2", "10", "(", ")", "(", ")", "+", "-", "*", "/", "^", "**", "!", "!!", " ", ",",
+              "mod", " mod ", "binomial(", "floor(", "f(", "a(", "pi", "e", "i", "sqrt(", "2n", "abs(", "sum", "for",
+              "x1", "T(", "I", "phi", "inf", "(mod ", "mod(", "n(", "x(", "Product", "F(", "F", "floor", "=", " = ",
+              "..", "...", ".", "sum(", "prod(", "k=", "k=0..n", ", ", "==", "!=", "a(n) = ", "1.5", "SUM("]
+
+    def expression(depth=0):
+        r = rng.random()
+        if depth > 3 or r < 0.3:
+            return rng.choice(["n", "k", "x", "2", "13", "pi", "e", "i", "a(n-1)", "binomial(n, k)", "n!", "(n+1)!!"])
+        if r < 0.6:
+            op = rng.choice([" + ", " - ", "*", "/", "^", " mod ", "**", " ", ""])
+            return expression(depth + 1) + op + expression(depth + 1)
+        if r < 0.75:
+            return rng.choice(["-", "+", "- ", "--"]) + expression(depth + 1)
+        if r < 0.9:
+            return "(" + expression(depth + 1) + ")" + rng.choice(["", "!", "!!", "^2"])
+        if r < 0.95:
+            limits = rng.choice(["k=0..n, ", "k=1..n - 1, ", "j=0..inf, ", "0..n, ", "k=1, n, ", "", "k, "])
+            return rng.choice(["sum", "prod", "Sum"]) + "(" + limits + expression(depth + 1) + ")"
+        args = ", ".join(expression(depth + 1) for _ in range(rng.randint(1, 3)))
+        return rng.choice(["floor", "gcd", "f", "a", "binomial", "stirling2"]) + "(" + args + ")"
+
+    def statement():
+        if rng.random() < 0.4:
+            return expression()
+        text = rng.choice(["a(n)", "T(n, k)", "A(x)", "n", "F(n)"]) + rng.choice([" = ", "="]) + expression()
+        while rng.random() < 0.3:
+            text += rng.choice([" = ", ", a(0) = ", ", ", ", a(1) = a(2) = "]) + expression(3)
+        return text
+
+    texts = ["".join(rng.choice(pieces) for _ in range(rng.randint(1, 10))) for _ in range(4000)]
+    texts += [statement() for _ in range(3000)]
+    texts += ["+".join(["n"] * 3000), "(" * 119 + "n" + ")" * 119, "2^" * 130 + "n", "-" * 130 + "n"]
+
+    def outcome(text):
+        try:
+            return _full(P.parse_statement(text))
+        except FormulaError as exc:
+            return ("error", str(exc), exc.line, exc.column, exc.expected)
+
+    assert sum(fast.accepts(t) for t in texts) > 4000
+    try:
+        with_shortcut = [outcome(t) for t in texts]
+        driver.fast = None
+        tables_only = [outcome(t) for t in texts]
+    finally:
+        driver.fast = fast
+    assert sum(o[0] != "error" for o in tables_only) > 2000  # plenty of them parse
+    assert with_shortcut == tables_only

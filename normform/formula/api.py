@@ -11,14 +11,16 @@ from normform.formula.errors import EvaluationError, FormulaError
 KINDS = ("closed-form", "recurrence", "ogf", "egf", "asymptotic", "identity", "expression", "relation")
 
 
-_parse_statement = None  # normform.formula.parser.parse_statement, imported on first use
+_parse_statement = _parse_short = None  # normform.formula.parser's, imported on first use
 
 
 def parse_formula(text: str) -> "Formula":
     """Parse one plain-text formula; raise :class:`FormulaError` with its position."""
-    global _parse_statement
+    global _parse_statement, _parse_short
     if _parse_statement is None:
-        from normform.formula.parser import parse_statement as _parse_statement
+        from normform.formula.parser import _parse_statement as _parse_short, parse_statement as _parse_statement
+    if text.__class__ is str and len(text) <= A.SHALLOW_TEXT:  # (a shallow tree: no `deep` wrapper needed)
+        return Formula(text, _parse_short(text))
     return Formula(text, _parse_statement(text))
 
 

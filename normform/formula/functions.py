@@ -487,6 +487,7 @@ def lookup(name: str, arity: int | None) -> FunctionSpec | None:
     if arity is None:
         return specs[0]
     for spec in specs:
-        if spec.accepts(arity):
+        lo, hi = spec.arity  # (spec.accepts, in line: the parser asks once per application)
+        if arity >= lo and (hi is None or arity <= hi):
             return spec
     return None
