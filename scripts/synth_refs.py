@@ -85,6 +85,8 @@ _UNIS = ("University of Oxford", "Harvard University", "Universität Bonn", "Uni
          "ETH Zürich", "University of Cambridge", "Princeton University", "MIT", "Universidad de Sevilla",
          "University of Tokyo", "Uppsala University", "Univ. of Michigan", "Rutgers University",
          "Universiteit Leiden", "Sapienza Università di Roma", "University of Waterloo")
+# Invented or generic meeting names in the shapes proceedings titles take
+# (ordinals, acronyms, dates, places, parts); none is taken from the dev corpora.
 _PROC = ("Proceedings of the {n}th International Conference on Formal Power Series and Algebraic Combinatorics",
          "Proc. {n}th Annual ACM Symposium on Theory of Computing",
          "Proceedings of the International Congress of Mathematicians",
@@ -92,14 +94,16 @@ _PROC = ("Proceedings of the {n}th International Conference on Formal Power Seri
          "Discrete Mathematics Days {y}", "Proc. Sympos. Pure Math.",
          "Proceedings of the {n}th Southeastern Conference on Combinatorics, Graph Theory and Computing",
          "Séminaire de Probabilités XXV", "Algebraic Combinatorics and Computer Science",
-         "{n}th International Conference on Interactive Theorem Proving, ITP {y}, September 9-12, {y}, Portland, OR, USA",
-         "Automated Reasoning - {n}th International Joint Conference, IJCAR {y}, Paris, France, July 1-4, {y}, Proceedings, Part II",
+         "{n}th Quillfeather Conference on Enumerative Structures, QCES {y}, June 3-7, {y}, Lyon, France",
+         "Enumeration and Proof - {n}th International Joint Workshop, IJWEP {y}, Kyoto, Japan, May 2-5, {y}, Proceedings, Part I",
          "Formal Power Series and Algebraic Combinatorics (Quillfeather, {y})",
-         "Modular functions of one variable, IV (Proc. Internat. Summer School, Univ. Antwerp, Antwerp, {y})",
+         "Partition functions of several variables, III (Proc. Summer Workshop, Univ. Quillfeather, Quillfeather, {y})",
          "Combinatorics '{n}: Proceedings of the Quillfeather Meeting, {y}",
-         "Number theory and physics. Based on the workshop “Enumeration and physics”, Vienna, Austria, March {y}",
-         "Proceedings of the {n}th ACM SIGPLAN International Conference on Certified Programs and Proofs",
-         "Foundations of Software Science and Computation Structures, FoSSaCS '{n}")
+         "Counting and geometry. Selected papers of the meeting “Tilings and walks”, Utrecht, Netherlands, June {y}",
+         "Proceedings of the {n}th QSEM International Symposium on Certified Enumeration and Tables",
+         "Tables of Sequences and Their Structures, TaSS '{n}",
+         "Proceedings of the Third Quillfeather Symposium on Lattice Paths (Univ. Quillfeather, {y}), Vol. I: Walks",
+         "Enumerative Combinatorics - EC-{n}", "Lattice Paths: Proceedings of Quillfeather Conferences, {y}")
 _EDITIONS = ((2, "2nd", "second"), (3, "3rd", "third"), (4, "4th", "fourth"), (5, "5th", "fifth"))
 
 
@@ -208,6 +212,12 @@ def _title(r: random.Random) -> str:
         f"Structures de {r.choice(_FIELDS)}", f"{en.capitalize()} de {a} {en}",
     )
     t = r.choice(forms)
+    if r.random() < 0.04:
+        # two-word titles ("On zigzags", "Tame tilings"): short enough to pass for one more name
+        t = r.choice((f"On {r.choice(_EXTRA_NOUNS)}", f"On {r.choice(_OBJ)}", f"{a.capitalize()} {en}",
+                      f"{r.choice(_NOUN).replace('-', ' ').capitalize()}s", f"Counting {en}",
+                      f"{r.choice(_NOUN).replace('-', ' ').capitalize()} {r.choice(('theory', 'theory', 'methods', 'spaces'))}"))
+        return _title_case(t) if r.random() < 0.5 else t
     if r.random() < 0.07:
         # short book titles ("Algebra", "Measure theory", "Geometry I"): after a
         # full name and a period they are easily read as one more name
@@ -222,6 +232,16 @@ def _title(r: random.Random) -> str:
                          "Forcing", nm, r.choice(_EXTRA_NOUNS).capitalize()))
         t = f"{head}{r.choice((': ', ': ', '. ', ' - '))}{r.choice(('an', 'a', 'the', 'An', 'A', 'The'))} " \
             f"{r.choice((a, 'analytic', 'modern', 'combinatorial', 'categorical'))} {r.choice(('viewpoint', 'approach', 'introduction', 'way', 'perspective', 'survey', 'primer'))}"
+    if r.random() < 0.025:
+        # comma lists ("Sets, Maps, and Categories", "Combinatorics: Graphs, Codes and Designs")
+        items = [r.choice(_EXTRA_NOUNS).capitalize() for _ in range(r.randint(3, 4))]
+        lst = ", ".join(items[:-1]) + r.choice((", and ", " and ", ", ")) + items[-1]
+        t = r.choice((lst, f"{r.choice(_FIELDS).capitalize()}: {lst}", f"{lst} in {r.choice(_FIELDS)}"))
+        if r.random() < 0.5:
+            t = t[0] + t[1:].lower()
+    elif r.random() < 0.03:
+        # a leading clause with a comma ("Sorry, the ... are ...", "Yes, ... ")
+        t = r.choice(("Sorry, ", "Yes, ", "Well, ", "Again, ", "Once more, ")) + t[0].lower() + t[1:]
     if r.random() < 0.2:
         t += r.choice((": ", ". ", ", ", " -- ")) + r.choice(
             (f"{a} methods", f"a {a} approach", f"the case of {o}", "part I", "the general case",
@@ -244,10 +264,26 @@ def _title(r: random.Random) -> str:
     if r.random() < 0.06:
         t += " " + r.choice(("in dimension $3$", "for $n \\geq 2$", "over $\\mathbb{F}_q$", "of rank two",
                              "in characteristic $p$", "and the 1979 problem"))
+    elif r.random() < 0.06:
+        # formulas typed as plain text, with brackets and commas inside the title
+        t += " " + r.choice(("for GL(n)", "for SL(2, Z)", "over a p-adic field, n<p", "of x → x + 1",
+                             "in L^p(R)", "for C^*-algebras", "of GL_n(F_q)", "(over finite fields)",
+                             "of the map x ↦ x^2 + c", "with n ≥ 3", "mod p"))
     x = r.random()
     if x < 0.35:
         t = _title_case(t)
     return t
+
+
+def _unicode_math(t: str) -> str:
+    from pylatexenc.latex2text import LatexNodes2Text
+    global _L2T
+    if _L2T is None:
+        _L2T = LatexNodes2Text()
+    return re.sub(r"\$[^$]*\$", lambda m: _L2T.latex_to_text(m.group()), t)
+
+
+_L2T = None
 
 
 def _isbn(r: random.Random, thirteen: bool) -> str:
@@ -294,6 +330,24 @@ _NOTES = ("Reprint of the {y} original", "Translated from the French by {p}", "S
           "Reprinted in Collected Papers, Vol. {v}", "Erratum in vol. {v}")
 
 
+def _real_journal(r: random.Random) -> tuple[str, str]:
+    """(full, printed) name of a real journal: the lexicon's pairs or a row
+    of the venue snapshot with one of its other spellings."""
+    rows = [row for row in lx.venue_rows() if row[0] == "journal"]
+    if not rows or r.random() < 0.5:
+        return r.choice(lx.JOURNALS)
+    _, full, other = r.choice(rows)
+    return full, r.choice(other) if other else full
+
+
+def _real_series(r: random.Random) -> str:
+    rows = [row for row in lx.venue_rows() if row[0] == "series"]
+    if not rows:
+        return r.choice(lx.SERIES)
+    _, full, other = r.choice(rows)
+    return r.choice(other) if other and r.random() < 0.4 else full
+
+
 def _invented_journal(r: random.Random) -> tuple[str, str]:
     f = r.choice(_FIELDS)
     f = " ".join(w[:1].upper() + w[1:] for w in f.split())
@@ -303,8 +357,15 @@ def _invented_journal(r: random.Random) -> tuple[str, str]:
         abbr = " ".join(_JABBR.get(w, w) for w in words)
     else:   # truncation abbreviations of any word ("Enum. Res. Not.")
         abbr = " ".join(w if len(w) <= 4 else w[: r.randint(3, 5)].rstrip("aeiou") + "." for w in words)
-    if r.random() < 0.1:
+    x = r.random()
+    if x < 0.1:
         abbr += r.choice((" (2)", " (3)", " Ser. A", " Ser. B", " (N.S.)"))
+    elif x < 0.18:
+        # commas inside journal names ("..., Series A", "X, Y and Z")
+        tail, short = r.choice(((", Series A", " Ser. A"), (", Series B", " Ser. B"), (", Second Series", " (2)"),
+                                (", Section A", " Sect. A"), (", Sigma", " Sigma")))
+        full += tail
+        abbr += short
     return full, abbr
 
 
@@ -362,7 +423,7 @@ def _invented_proc(r: random.Random, year: int) -> str:
     return "".join(parts)
 
 
-_TITLE_HEADS = ("Modular functions of one variable, IV", "Algebraic number theory", "Combinatorial theory",
+_TITLE_HEADS = ("Partition functions of several variables, III", "Algebraic number theory", "Combinatorial theory",
                 "Enumerative combinatorics", "Topics in algebra", "Number theory days", "Séminaire de théorie des nombres",
                 "Probability theory", "Symmetric functions", "Combinatorics '79")
 _SERPAT = ("{N} Series in {F}", "Modern {N} Classics", "{N} Lecture Notes in {F}", "Studies in {F}",
@@ -377,26 +438,28 @@ def _invented_series(r: random.Random) -> str:
     return r.choice(_SERPAT).format(N=name, F=f)
 
 
-def _glued_publisher(pub: str, place: str, r: random.Random) -> str:
-    """Publisher strings with a place inside, as catalogue metadata prints
-    them: "Springer New York, NY", "Springer-Verlag Berlin Heidelberg",
-    "A Press, London; B Co., Inc., New York"."""
+def _glued_publisher(pub: str, place: str, r: random.Random) -> tuple[str, str | None]:
+    """(publisher, place) for publisher strings with a place inside, as
+    catalogue metadata prints them: "Springer New York, NY",
+    "Springer-Verlag Berlin Heidelberg", "A Press, London; B Co., Inc., New
+    York" (one publisher field), or a place list "Berlin-New York" (the
+    place).  A plain "Publisher, Place" stays two fields."""
     x = r.random()
     city = place.split(",")[0]
-    if x < 0.5:
-        return f"{pub} {place if r.random() < 0.4 else city}"
-    if x < 0.7:
+    if x < 0.55:
+        return f"{pub} {place if r.random() < 0.4 else city}", None
+    if x < 0.65:
         other, oplace = r.choice(lx.PUBLISHERS)
-        return f"{pub}, {place}; {other}, {oplace}"
+        return f"{pub}, {place}; {other}, {oplace}", None
     if x < 0.85:
-        return f"{pub}, {city}-{r.choice(('New York', 'London', 'Berlin', 'Paris', 'Heidelberg'))}"
-    return f"{pub} ({_acronym(pub, r)})"
+        return pub, f"{city}-{r.choice(('New York', 'London', 'Berlin', 'Paris', 'Heidelberg'))}"
+    return f"{pub} ({_acronym(pub, r)})", place
 
 
 def make_record(r: random.Random, i: int) -> dict:
     kinds = ("article-journal", "book", "chapter", "paper-conference", "thesis", "report",
              "manuscript", "webpage", "software", "personal")
-    typ = r.choices(kinds, weights=(48, 20, 7, 7, 4, 3, 5, 2, 1.5, 1.5))[0]
+    typ = r.choices(kinds, weights=(46, 24, 7, 7, 4, 3, 5, 2, 1.5, 1.5))[0]
     year = r.randint(1890, 2025) if r.random() < 0.9 else r.randint(1700, 1889)
     n_auth = r.choices((1, 2, 3, 4, 5, 7), weights=(35, 33, 18, 8, 4, 2))[0]
     rec: dict = {"id": f"r{i}", "type": typ, "issued": {"date-parts": [[year]]}}
@@ -407,14 +470,23 @@ def make_record(r: random.Random, i: int) -> dict:
     else:
         rec["author"] = [make_person(r) for _ in range(n_auth)]
     rec["title"] = _title(r)
+    if "$" in rec["title"] and r.random() < 0.5:
+        # TeX math as it reads once converted to Unicode ("$\\pi$" -> "π")
+        rec["title"] = _unicode_math(rec["title"])
     if r.random() < 0.15:
         rec["issued"]["date-parts"][0].append(r.randint(1, 12))
     if typ == "article-journal":
-        full, abbr = r.choice(lx.JOURNALS) if r.random() < 0.65 else _invented_journal(r)
+        full, abbr = _real_journal(r) if r.random() < 0.65 else _invented_journal(r)
         rec["container-title"] = abbr if r.random() < 0.55 else full
-        rec["volume"] = str(r.randint(1, 400) if r.random() < 0.95 else r.randint(1000, 1999))
+        v = r.random()
+        rec["volume"] = str(r.randint(1, 20) if v < 0.2 else r.randint(1, 400) if v < 0.95 else r.randint(1000, 1999))
         if r.random() < 0.6:
             rec["issue"] = str(r.randint(1, 12)) if r.random() < 0.9 else f"{r.randint(1, 5)}-{r.randint(6, 9)}"
+        x = r.random()
+        if x < 0.03:
+            # journals numbered by issue only ("News, (14):58-65")
+            rec.pop("volume")
+            rec["issue"] = str(r.randint(1, 60))
         x = r.random()
         if x < 0.85:
             a = r.randint(1, 2500)
@@ -426,13 +498,16 @@ def make_record(r: random.Random, i: int) -> dict:
                                       f"{r.randint(1, 20)}.{r.randint(1, 9)}.{r.randint(1, 9)}"))
     elif typ in ("book", "chapter", "paper-conference"):
         pub, place = r.choice(lx.PUBLISHERS) if r.random() < 0.7 else _invented_publisher(r)
-        if r.random() < 0.15:
-            pub = _glued_publisher(pub, place, r)
+        glued = r.random() < 0.15
+        if glued:
+            pub, place = _glued_publisher(pub, place, r)
         rec["publisher"] = pub
-        if r.random() < 0.6:
+        if place and (r.random() < 0.6 or glued):
             rec["publisher-place"] = place
         if r.random() < 0.45:
-            rec["collection-title"] = r.choice(lx.SERIES) if r.random() < 0.6 else _invented_series(r)
+            x = r.random()
+            rec["collection-title"] = r.choice(lx.SERIES) if x < 0.4 else _real_series(r) if x < 0.6 \
+                else _invented_series(r)
             if r.random() < 0.7:
                 rec["collection-number"] = str(r.randint(1, 2200))
         if typ == "book":
@@ -469,6 +544,12 @@ def make_record(r: random.Random, i: int) -> dict:
             + r.choice(("", " for Python", ": a toolkit for " + r.choice(_OBJ)))
         rec["version"] = f"{r.randint(0, 5)}.{r.randint(0, 20)}"
         rec["URL"] = f"https://github.com/qsem-example/{rec['title'].split()[0].lower()}"
+    return _finish(rec, r, typ)
+
+
+def _finish(rec: dict, r: random.Random, typ: str) -> dict:
+    """Identifiers, ISBN and notes (any kind)."""
+    year = rec["issued"]["date-parts"][0][0]
     if typ in ("article-journal", "chapter", "paper-conference", "book") and r.random() < 0.25:
         rec["DOI"] = f"10.{r.randint(1000, 9999)}/{r.choice(('s', 'j.', 'jcta.', 'ejc.', ''))}{r.randint(10000, 9999999)}"
     if r.random() < 0.10:
@@ -808,17 +889,19 @@ def _name_pieces(p: dict, form: str, r: random.Random) -> str:
         return f"{fam}, {given}" + (f", {suf}" if suf else "")
     if form == "nodots":
         return f"{fam} {_initials(given, r, dots=False, space=r.random() < 0.5)}"
+    if form == "famfirst":
+        return f"{fam} {_initials(given, r, space=r.random() < 0.7)}"
     return f"{given} {fam}"
 
 
 def _names(people: list[dict], r: random.Random) -> str:
-    form = r.choices(("full", "init", "inv", "invfull", "nodots"), weights=(20, 45, 20, 6, 9))[0]
+    form = r.choices(("full", "init", "inv", "invfull", "nodots", "famfirst"), weights=(20, 45, 20, 6, 9, 4))[0]
     names = [_name_pieces(p, form, r) for p in people]
     if len(names) > 3 and r.random() < 0.25:
         return names[0] + r.choice((" et al.", ", et al.", " et al"))
     if len(names) == 1:
         return names[0]
-    sep_last = r.choice((" and ", ", and ", " & ", ", ", " and ")) if form not in ("inv", "nodots") else \
+    sep_last = r.choice((" and ", ", and ", " & ", ", ", " and ")) if form not in ("inv", "nodots", "famfirst") else \
         r.choice((", ", " and ", ", & ", "; ", ", and "))
     sep = "; " if form in ("inv", "invfull") and r.random() < 0.3 else ", "
     return sep.join(names[:-1]) + sep_last + names[-1]
@@ -897,8 +980,11 @@ def render_template(rec: dict, r: random.Random) -> list[tuple[str, str]]:
             b.o("{\\it ").f(j, "container_title").o("}")
         else:
             b.f(j, "container_title")
-        vp, v, vs = _vol(rec["volume"], r)
-        b.o(r.choice((" ", ", ", " "))).o(vp).f(v, "volume").o(vs)
+        if "volume" in rec:
+            vp, v, vs = _vol(rec["volume"], r)
+            b.o(r.choice((" ", ", ", " "))).o(vp).f(v, "volume").o(vs)
+        else:
+            b.o(r.choice((", ", " ")))
         issue = rec.get("issue")
         if yearpos == "after_vol":
             if issue and r.random() < 0.5:
@@ -1135,7 +1221,12 @@ def render_bst_like(rec: dict, r: random.Random) -> list[tuple[str, str]] | None
                 b.o(", ").f(place, "place")
             if rec.get("edition") and layout != "ams":
                 n = int(rec["edition"])
-                b.o(", ").f(next(c for x, a, c in _EDITIONS if x == n), "edition").o(" edition")
+                word = next(c for x, a, c in _EDITIONS if x == n)
+                if r.random() < 0.25:
+                    # free-text edition fields, printed before " edition" as they were typed
+                    word = r.choice((f"{word}, revised", f"reprint of the {int(year) - r.randint(5, 40)}",
+                                     "corrected reprint", f"{word} corrected", f"revised and enlarged {word}"))
+                b.o(", ").f(word, "edition").o(" edition")
             if layout != "apa":
                 b.o(", ").f(year, "date")
         if inner and pgs and layout in ("ams", "siam"):
@@ -1212,9 +1303,47 @@ def spans_to_pieces(text: str, spans) -> list[tuple[str, str]]:
     return pieces
 
 
+def write_venues_snapshot(src: str, dst: str) -> int:
+    """Copy the names of the venue table (``normform/data/venues.tsv``) into
+    the frozen snapshot the labeler and this generator read
+    (``normform/data/refs-venues.tsv``): kind, full title, abbreviation, former
+    titles and aliases, tab-separated.  Run by hand when the venue table has
+    grown, then retrain."""
+    out = ["# Frozen names of venues.tsv (journals and series) for the reference labeler's phrase",
+           "# feature and the synthetic generator.  Made by scripts/synth_refs.py --venues-snapshot.",
+           "# Columns: kind, full title, then other spellings (abbreviation, former titles, aliases)."]
+    header = None
+    n = 0
+    with open(src, encoding="utf-8") as fh:
+        for line in fh:
+            if line.startswith("#") or not line.strip():
+                continue
+            cells = line.rstrip("\n").split("\t")
+            if header is None:
+                header = cells
+                continue
+            row = dict(zip(header, cells))
+            other = [row.get("abbreviation", "")]
+            for key in ("former", "aliases"):
+                other += [x.strip() for x in row.get(key, "").split("|")]
+            seen = {row["full"]}
+            keep = []
+            for o in other:
+                if o and o not in seen:
+                    seen.add(o)
+                    keep.append(o)
+            out.append("\t".join([row.get("kind", "journal"), row["full"], *keep]))
+            n += 1
+    with open(dst, "w", encoding="utf-8") as fh:
+        fh.write("\n".join(out) + "\n")
+    return n
+
+
 def main(argv=None) -> int:
     ap = argparse.ArgumentParser(description=__doc__.splitlines()[0])
     ap.add_argument("--out", default="build/refs-synth.jsonl")
+    ap.add_argument("--venues-snapshot", action="store_true",
+                    help="only rewrite normform/data/refs-venues.tsv from normform/data/venues.tsv")
     ap.add_argument("--n", type=int, default=20000, help="number of output lines")
     ap.add_argument("--seed", type=int, default=20261202)
     ap.add_argument("--styles", type=int, default=120, help="number of CSL styles to draw from")
@@ -1223,6 +1352,11 @@ def main(argv=None) -> int:
     ap.add_argument("--bst-share", type=float, default=0.4,
                     help="share of the non-CSL, non-pybtex lines written in BibTeX-style layouts")
     args = ap.parse_args(argv)
+    if args.venues_snapshot:
+        data = os.path.join(os.path.dirname(__file__), "..", "normform", "data")
+        n = write_venues_snapshot(os.path.join(data, "venues.tsv"), os.path.join(data, lx.VENUES_SNAPSHOT))
+        print(f"wrote {n} venues to {lx.VENUES_SNAPSHOT}", file=sys.stderr)
+        return 0
     r = random.Random(args.seed)
     t0 = time.time()
     styles = pick_styles(r, args.styles)

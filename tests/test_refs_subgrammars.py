@@ -55,3 +55,10 @@ def test_literal_dates():
     assert parse_date("to appear").literal == "to appear"
     assert parse_date("n.d.").literal == "n.d."
     assert parse_date("Spring 1990").season == "Spring"
+
+
+def test_article_number_pages_with_colons():
+    # volume-local article numbering "12:1-12:17" (common practice in LIPIcs proceedings)
+    from normform.refs.subgrammars import parse_pages
+    p = parse_pages("12:1–12:17")
+    assert (p.first, p.last) == ("12:1", "12:17")

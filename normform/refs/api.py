@@ -34,6 +34,7 @@ def _empty(raw: str) -> Reference:
 
 def parse_reference(text: str) -> Reference:
     """One reference line -> a Reference with per-field provenance and confidence."""
+    from normform.refs import kinds, relabel, validate
     from normform.refs.assemble import assemble
     from normform.refs.labeler import label
 
@@ -59,8 +60,11 @@ def parse_reference(text: str) -> Reference:
     if not tokens:
         return _empty(raw)
     labels, marg, prob = label(tokens, work)
+    labels, marg = list(labels), list(marg)
+    relabel.repair(work, tokens, labels, marg)   # shapes the labeler splits wrongly
     ref = assemble(work, tokens, labels, marg, prob, truncated=truncated)
     ref = _implied_ids(ref)
+    ref = validate.review(kinds.details(ref, work), work, tokens)   # invalid ids, odd years, kind details
     if ref.provenance is not None and ref.provenance.raw != raw:
         ref = ref.replace(provenance=Provenance(raw=raw, fields=ref.provenance.fields,
                                                 confidence=ref.provenance.confidence))

@@ -9,6 +9,7 @@ the whole parser, so everything here is precompiled and allocation-light.
 from __future__ import annotations
 
 import re
+import unicodedata
 from functools import lru_cache
 
 from normform.refs import lexicon as lx
@@ -44,8 +45,11 @@ KNOWN: frozenset[str] | None = None
 
 
 def set_known(attrs: frozenset[str] | None) -> None:
-    global KNOWN
+    global KNOWN, _GZ, _NX_KNOWN, _FI
     KNOWN = attrs
+    _FI = ("fi+",) if attrs is None or "fi+" in attrs else ()
+    _NX_KNOWN = tuple(tuple(a for a in v if attrs is None or a in attrs) for v in _NX)
+    _GZ = {key: tuple(a for a in v if attrs is None or a in attrs) for key, v in _GZ_ALL.items()}
     token_features.cache_clear()
     _context_strings.cache_clear()
     _token_parts.cache_clear()
@@ -138,11 +142,13 @@ _QUOTES = "\"“”«»„"
 
 
 @lru_cache(maxsize=200_000)
-def _token_parts(text: str, kind: str) -> tuple[tuple[str, ...], tuple[str, ...], str, tuple[str, ...], str]:
+def _token_parts(text: str, kind: str) -> tuple[tuple[str, ...], tuple[str, ...], str, tuple[str, ...], str,
+                                                str | None]:
     """Everything a token contributes that depends only on (text, kind):
-    its own features, and what it gives its neighbours (one cache lookup)."""
+    its own features, what it gives its neighbours, its phrase key (one
+    cache lookup)."""
     prev, w2p, nxt, w2n = _context_strings(text if len(text) < 20 else kind, kind)
-    return token_features(text, kind), prev, w2p, nxt, w2n
+    return token_features(text, kind), prev, w2p, nxt, w2n, _phrase_key(text, kind)
 
 
 def _sentence_dot(tokens: list[Token], i: int) -> bool:
@@ -167,7 +173,27 @@ _SEG_PUNCT = frozenset(",;:()")
 _WORDISH = frozenset(("word", "num", "initial"))
 
 
-def _segments(tokens: list[Token]) -> tuple[list[int], list[bool], list[int], list[bool]]:
+# What follows a segment's closing separator: a venue is the segment right
+# before ", 12", ", vol.", ", pp." -- wherever the sentence period before it
+# falls.  Index into _NX by _next_code.
+_NX = ((), ("nx=num",), ("nx=year",), ("nx=vol",), ("nx=pp",), ("nx=no",))
+_NX_KNOWN = _NX      # filtered by the model's attributes in set_known
+_NX_WORDS = {"vol": 3, "volume": 3, "band": 3, "bd": 3, "v": 3, "tome": 3, "pages": 4, "pp": 4, "p": 4,
+             "no": 5, "number": 5, "issue": 5, "nr": 5, "heft": 5}
+
+
+def _next_code(tokens: list[Token], i: int) -> int:
+    if i + 1 >= len(tokens):
+        return 0
+    tok = tokens[i + 1]
+    if tok.kind == "num":
+        return 2 if _YEAR.match(tok.text) else 1
+    if tok.kind in ("word", "initial"):
+        return _NX_WORDS.get(tok.text.lower().rstrip("."), 0)
+    return 0
+
+
+def _segments(tokens: list[Token]) -> tuple[list[int], list[bool], list[int], list[bool], list[int]]:
     """Per token: length bucket of its segment (words between , ; : or a
     sentence period), whether the segment holds a lower-case word (names
     almost never do, titles almost always), the segment's index, and whether
@@ -176,6 +202,7 @@ def _segments(tokens: list[Token]) -> tuple[list[int], list[bool], list[int], li
     seg_len = [0] * n
     seg_low = [False] * n
     seg_idx = [0] * n
+    seg_nx = [0] * n
     sdot = [False] * n
     start = 0
     idx = 0
@@ -204,12 +231,142 @@ def _segments(tokens: list[Token]) -> tuple[list[int], list[bool], list[int], li
                 seg_low[start:end] = [True] * (end - start)
             if idx:
                 seg_idx[start:end] = [idx if idx < 8 else 8] * (end - start)
+            if i < n and tokens[i].text != ".":
+                code = _next_code(tokens, i)
+                if code:
+                    seg_nx[start:i] = [code] * (i - start)
             start = i + 1
             if words:
                 idx += 1
             words = 0
             low = False
-    return seg_len, seg_low, seg_idx, sdot
+    return seg_len, seg_low, seg_idx, sdot, seg_nx
+
+
+# ------------------------------------------------------------ phrase gazetteer
+# Known multi-word venue names (journals with their abbreviations, book series,
+# publishers) matched as the longest phrase starting at a capitalised token.
+# A matched token gets "gz=B:<kind>" (first), "gz=I:<kind>" (inside) or
+# "gz=E:<kind>" (last), the next content token "gz=A": this tells the labeler
+# where a comma-rich or period-rich venue name starts and ends.  Periods and
+# dashes are transparent ("Math." = "Math", "Springer-Verlag" = "Springer
+# Verlag"); a comma must be where the name has one, so "Springer, New York"
+# (publisher, place) is not the publisher "Springer New York".  Case and
+# accents are folded.
+
+_TRANSPARENT = frozenset((".", "-", "–", "—", "--", "---"))
+
+
+@lru_cache(maxsize=200_000)
+def _phrase_key(text: str, kind: str) -> str | None:
+    """The token as the phrase matcher sees it; None = skipped."""
+    if kind == "initial":
+        text = text[0]
+    elif text in _TRANSPARENT:
+        return None
+    s = unicodedata.normalize("NFKD", text.lower())
+    return "".join(ch for ch in s if not unicodedata.combining(ch))
+
+
+def _build_trie() -> dict:
+    from normform.refs.tokens import tokenize
+    phrases: list[tuple[str, str]] = []
+    for full, abbr in lx.JOURNALS:
+        phrases += [("j", full), ("j", abbr)]
+    for kind, full, other in lx.venue_rows():
+        k = "s" if kind == "series" else "j"
+        phrases += [(k, full)] + [(k, o) for o in other]
+    phrases += [("s", s) for s in lx.SERIES]
+    phrases += [("p", pub) for pub, _ in lx.PUBLISHERS]
+    root: dict = {}
+    for kind, phrase in phrases:
+        keys = [k for k in (_phrase_key(t.text, t.kind) for t in tokenize(phrase)) if k is not None]
+        if len(keys) < 2:
+            continue     # one-word names ("Topology", "Order") are ordinary words too
+        node = root
+        for k in keys:
+            node = node.setdefault(k, {})
+        # a phrase that is both a journal and a series name keeps the first kind
+        node.setdefault("", kind)
+    return root
+
+
+_TRIE: dict | None = None
+_GZ_ALL = {(pos, kind): ("gz=%s:%s" % (pos, kind),) for pos in "BIE" for kind in "jsp"}
+_GZ_ALL["A", ""] = ("gz=A",)
+_GZ = _GZ_ALL      # filtered by the model's attributes in set_known
+
+
+def _phrases(tokens: list[Token], keys: list[str | None]) -> list[tuple[str, ...]] | None:
+    """Per token, its phrase attributes (None when nothing matched)."""
+    global _TRIE
+    root = _TRIE
+    if root is None:
+        root = _TRIE = _build_trie()
+    n = len(tokens)
+    out: list[tuple[str, ...]] | None = None
+    i = 0
+    while i < n:
+        k = keys[i]
+        node = root.get(k) if k is not None else None
+        if node is None or not tokens[i].text[:1].isupper():
+            i += 1
+            continue
+        best = -1
+        kind = ""
+        j = i + 1
+        while j < n:
+            k = keys[j]
+            if k is None:
+                j += 1
+                continue
+            node = node.get(k)
+            if node is None:
+                break
+            if "" in node:
+                best, kind = j, node[""]
+            j += 1
+        if best < 0:
+            i += 1
+            continue
+        if out is None:
+            out = [()] * n
+        out[i] = _GZ["B", kind]
+        inner = _GZ["I", kind]
+        for m in range(i + 1, best):
+            out[m] = inner
+        out[best] = _GZ["E", kind]
+        m = best + 1
+        while m < n and (keys[m] is None or keys[m] == ","):
+            m += 1
+        if m < n:
+            out[m] = out[m] + _GZ["A", ""]
+        i = best + 1
+    return out
+
+
+def _after_inverted_name(tokens: list[Token], i: int) -> bool:
+    """Is token ``i`` a capitalised word right after "Family, I. J." (an
+    inverted name whose initials end with no separator)?  In an inverted
+    list the next name would follow ",", ";", "&" or "and", so such a word
+    starts the title ("Engel, K. Sperner Theory.").  "J. Smith, K. Sperner"
+    does not count: there the word before the comma follows an initial."""
+    tok = tokens[i]
+    if tok.kind != "word" or not tok.text[:1].isupper():
+        return False
+    j = i - 1
+    while j > 0 and (tokens[j].kind == "initial" or tokens[j].kind == "dash"):
+        j -= 1
+    if j < 1 or tokens[j].text != "," or tokens[j - 1].kind != "word":
+        return False
+    if j < 2:
+        return True
+    before = tokens[j - 2]
+    # "van der Marrow, B." (a particle) yes; "J. Smith, K." / "John Smith, K." no
+    return before.kind == "punct" or before.kind == "word" and before.text[:1].islower()
+
+
+_FI = ("fi+",)
 
 
 def sequence_features(tokens: list[Token], text: str) -> list[list[str]]:
@@ -223,13 +380,15 @@ def sequence_features(tokens: list[Token], text: str) -> list[list[str]]:
     if not n:
         return out
     parts = [_token_parts(t.text, t.kind) for t in tokens]
+    gz = _phrases(tokens, [p[5] for p in parts])
     depth = 0
     in_quote = False
     periods = 0      # sentence-like separators seen so far (". " after a non-initial)
     commas = 0
     seen_year = False
     seen_in = False
-    seg_len, seg_low, seg_idx, sdot = _segments(tokens)
+    seg_len, seg_low, seg_idx, sdot, seg_nx = _segments(tokens)
+    nx = _NX if KNOWN is None else _NX_KNOWN
     tlen = len(text)
     last = n - 1
     append = out.append
@@ -242,6 +401,12 @@ def sequence_features(tokens: list[Token], text: str) -> list[list[str]]:
             | seen_in << 5 | (st > 0 and text[st - 1] == " ") << 6 | (en < tlen and text[en] == " ") << 7
         f = [*parts[i][0], _POS[i * 10 // n], _SL[seg_len[i]], _SI[seg_idx[i]],
              *_MID[seg_low[i]][periods if periods < 5 else 5][commas if commas < 6 else 6], *_FLAGS[bits]]
+        if gz is not None and gz[i]:
+            f += gz[i]
+        if seg_nx[i]:
+            f += nx[seg_nx[i]]
+        if i > 2 and tokens[i - 1].kind == "initial" and _after_inverted_name(tokens, i):
+            f += _FI
         if i > 0:
             f += parts[i - 1][1]
             if i > 1:

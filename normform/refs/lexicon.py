@@ -201,6 +201,8 @@ PUBLISHERS: tuple[tuple[str, str], ...] = (
     ("Holt, Rinehart and Winston", "New York"), ("Macmillan", "London"),
     ("Mathematical Sciences Publishers", "Berkeley, CA"), ("Zanichelli", "Bologna"),
     ("Editorial Reverté", "Barcelona"), ("Alianza Editorial", "Madrid"),
+    ("ACM", "New York"), ("Association for Computing Machinery", "New York, NY"), ("IEEE", "Piscataway, NJ"),
+    ("IEEE Computer Society", "Los Alamitos, CA"), ("ACM Press", "New York"), ("EMS", "Zürich"),
 )
 
 SERIES: tuple[str, ...] = (
@@ -310,3 +312,30 @@ in and & et al. al eds. eds ed. ed editor editors edited by pp. pp p. vol. vol v
 number issue art. article paper chapter ch. chap. pages available at retrieved from accessed
 doi arxiv preprint to appear submitted in press forthcoming translated trans. band bd. heft nr.
 """.split())
+
+# A frozen copy of the venue table's names (``normform/data/refs-venues.tsv``,
+# taken from ``venues.tsv`` by ``scripts/synth_refs.py --venues-snapshot``):
+# the labeler's phrase feature and the generator read this copy, so a later
+# edit of the venue table cannot change a trained model's features.
+VENUES_SNAPSHOT = "refs-venues.tsv"
+
+
+def venue_rows() -> tuple[tuple[str, str, tuple[str, ...]], ...]:
+    """(kind, full title, other spellings) for every row of the snapshot;
+    kind is "journal" or "series"."""
+    global _VENUE_ROWS
+    if _VENUE_ROWS is None:
+        from normform.resources import data_path
+        rows = []
+        path = data_path(VENUES_SNAPSHOT)
+        if path.exists():
+            for line in path.read_text("utf-8").splitlines():
+                if not line or line.startswith("#"):
+                    continue
+                kind, full, *other = line.split("\t")
+                rows.append((kind, full, tuple(o for o in other if o)))
+        _VENUE_ROWS = tuple(rows)
+    return _VENUE_ROWS
+
+
+_VENUE_ROWS: tuple[tuple[str, str, tuple[str, ...]], ...] | None = None

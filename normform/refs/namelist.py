@@ -19,7 +19,7 @@ from normform.refs import lexicon as lx
 _SEP = re.compile(r"\s*;\s*|\s*,?\s+(?:and|&|und|et|y|e)\s+|\s*,?\s*&\s*|\s*\band\b\s*")
 _ETAL = re.compile(r"[,;]?\s*(?:et\.?\s*al\.?|and others|y otros|u\.\s?a\.)\s*$", re.I)
 _ROLE = re.compile(
-    r"[,;]?\s*\(?\b(?:eds?\.?|editors?|(?:edited|compiled|translated)\s+by|hrsg\.?|trans\.|translator)\)?[.,]?\s*",
+    r"[,;]?\s*\(?\b(?:eds?\.?|editors?|(?:edited|compiled|translated)\s+by|hrsg\.?|transl?\.|translators?)\)?[.,]?\s*",
     re.I)
 # one given-name piece: "A.", "A", "J.-P.", "Ch.", "A.B."
 _INITIALS = re.compile(r"(?:[^\W\d_][a-z]?\.?(?:-[^\W\d_]\.?)?)+\Z")
@@ -40,6 +40,11 @@ _CORPORATE_WORDS = ("group", "society", "committee", "project", "authors", "comm
 # non-ASCII characters that re.IGNORECASE folds onto ASCII letters (dotted
 # and dotless i, long s, Kelvin sign): with one of them, skip the gates
 _CASE_ODD = re.compile("[\u0130\u0131\u017f\u212a]")
+
+
+def _caps_initials(w: str) -> bool:
+    # "DŽ", "ÉG": one to three capitals of any script
+    return len(w) <= 3 and w.isalpha() and w.isupper()
 
 
 def _is_initials(piece: str) -> bool:
@@ -105,7 +110,10 @@ def split_names(text: str) -> tuple[tuple[Name, ...], bool]:
         inverted = True
     if not inverted and len(chunks) % 2 == 0 and groups[-1].count(",") == 1 and \
             all(_core_words(c) <= 3 and c[:1].isupper() and not c.endswith(".") for c in chunks[1::2]) and \
-            (len(groups) >= 2 or (len(chunks) == 2 and len(chunks[1].split()) == 1)):
+            (len(groups) >= 2 or (len(chunks) == 2 and len(chunks[1].split()) == 1
+                                  # "P. Aluffi, Algebra", "Ehrhard Behrends, M-structure": a
+                                  # given-first name and a stray word, not "Bojanić, Ranko"
+                                  and _core_words(chunks[0]) == 1 and not _ends_initial(chunks[0].split()[0]))):
         # "Izhakian, Zur, Knebusch, Manfred, and Rowen, Louis"; "Bojanić, Ranko"
         inverted = True
     if not inverted and len(chunks) >= 2 and len(groups) >= 2 and all(g.count(",") == 1 for g in groups):
@@ -172,10 +180,17 @@ def parse_one(text: str) -> Name:
         suffix = words.pop()
     if len(words) == 1:
         return Name(family=words[0], suffix=suffix)
-    # "Family A B" / "Family A.B.": initials after a long word
-    if not _INITIAL_ONLY.match(words[0]) and all(_INITIAL_ONLY.match(w) for w in words[1:]) \
-            and not any(w.endswith(".") for w in words[1:]) and words[0] not in lx.PARTICLES:
-        return Name(family=words[0], given=" ".join(words[1:]), suffix=suffix)
+    # "Family A B" / "Family A.B.": initials after a long word; also with a
+    # particle before the family ("de Moura L", "van der Hoeven J") and
+    # non-ASCII capitals ("Djoković DŽ")
+    lead = 0
+    while lead < len(words) - 2 and words[lead] in lx.PARTICLES:
+        lead += 1
+    head, rest = words[lead], words[lead + 1:]
+    if rest and not _INITIAL_ONLY.match(head) and head not in lx.PARTICLES \
+            and all(_INITIAL_ONLY.match(w) or _caps_initials(w) for w in rest) \
+            and not any(w.endswith(".") for w in rest):
+        return Name(family=head, given=" ".join(rest), particle=" ".join(words[:lead]) or None, suffix=suffix)
     # given-first: family is the last word, particles (lower case) precede it
     j = len(words) - 1
     k = j

@@ -73,6 +73,8 @@ def expand_range(first: str, last: str) -> str:
 # Fast paths for the shapes most lines use; everything else goes to the grammar.
 _SIMPLE_RANGE = re.compile(r"(\d{1,6})\s?(?:-{1,3}|[–—])\s?(\d{1,6})\Z")
 _SIMPLE_NUM = re.compile(r"\d{1,6}\Z")
+# article-number pages "12:1-12:17" (volume-local numbering, LIPIcs style)
+_COLON_RANGE = re.compile(r"(\d{1,4}:\d{1,4})\s?(?:-{1,3}|[–—])\s?(\d{1,4}:\d{1,4})\Z")
 _SIMPLE_VOL = re.compile(r"(?:[Vv]ol(?:ume)?\.?\s?|\*\*)?(\d{1,5})(?:\*\*)?(?:\s?\((\d{1,4})\))?\Z")
 _SIMPLE_YEAR = re.compile(r"\(?((?:1[5-9]|20)\d\d)\)?\.?\Z")
 
@@ -87,6 +89,9 @@ def parse_pages(text: str) -> Pages | None:
         return Pages(first=m.group(1), last=expand_range(m.group(1), m.group(2)))
     if _SIMPLE_NUM.match(text):
         return Pages(first=text)
+    m = _COLON_RANGE.match(text)
+    if m:
+        return Pages(first=m.group(1), last=m.group(2))
     tree = _parse("refs-pages.lark", text)
     if tree is None:
         return None

@@ -1,0 +1,374 @@
+"""Label repairs run between the labeler and :func:`assemble.assemble`.
+
+Each repair handles one class of input the labeler splits wrongly but whose
+shape is unambiguous in the text itself (a full date, a translator phrase,
+a report number, "Journal 8 (2013), e1234").  They only move tokens between
+labels; the fields, the spans and the confidences are then built by
+``assemble`` as for any other line.  None is keyed to a particular line.
+"""
+
+from __future__ import annotations
+
+import re
+from bisect import bisect_left
+
+from normform.refs.tokens import Token
+
+_MONTH = (r"(?:Jan(?:uary)?|Feb(?:ruary)?|Mar(?:ch)?|Apr(?:il)?|May|June?|July?|Aug(?:ust)?|"
+          r"Sept?(?:ember)?|Oct(?:ober)?|Nov(?:ember)?|Dec(?:ember)?)")
+_YEAR = r"(?:1[5-9]|20)\d\d"
+# Full dates as bibliography styles print them: "15 March 2005", "March 15,
+# 2005", "2005-03-15" (ISO 8601 calendar date).
+_FULL_DATE = re.compile(
+    r"(?<![\w-])(?:\d{1,2}\.?\s+" + _MONTH + r"\.?,?\s+" + _YEAR
+    + r"|" + _MONTH + r"\.?\s+\d{1,2},\s*" + _YEAR
+    + r"|" + _YEAR + r"-[01]\d-[0-3]\d)(?![\w-])")
+# A date introduced by one of these is when a web page was read, not when
+# the work appeared (common practice in web citations).
+_ACCESS = re.compile(r"(?i)\b(?:last\s+)?(?:accessed|retrieved|visited|viewed|consulted)(?:\s+on)?:?\s*"
+                     r"(?:(?:\d{1,2}\.?\s+)?" + _MONTH + r"\.?(?:\s+\d{1,2},)?\s+" + _YEAR
+                     + r"|" + _YEAR + r"-[01]\d-[0-3]\d|\d{1,2}/\d{1,2}/" + _YEAR + r")")
+# "v. 12" is a volume in older styles: only a glued "v2.1" counts
+_ACCESS_BEFORE = re.compile(r"(?i)(?:accessed|retrieved|visited|viewed|consulted)(?:\s+on)?:?\s*\Z")
+_VERSION = re.compile(r"(?<![\w.])(?:[Vv]ersion\s|[Vv]er\.\s?|[Vv](?=\d))\d+(?:\.\d+){0,3}(?![\w])")
+# "Tech. Rep. TR-2007-13", "Technical Report No. 5", "Report No. 12",
+# "Preprint 2004-17": the report's own number (CSL "number").
+_REPORT_NO = re.compile(
+    r"\b(?P<word>Tech(?:nical)?\.?\s?Rep(?:ort)?\.?|(?:Research |Technical )?Report|Preprint)"
+    r"\s*(?P<num>(?:(?:No|Nr|no|nr|Number|number)\.?\s?|#\s?)[A-Z]{0,4}-?\d[\w./-]*"
+    r"|[A-Z]{1,5}-\d[\w./-]*|\d{2,4}[-/]\d[\w./-]*)")
+# lower-case "trans." only: "Trans. Amer. Math. Soc." is a journal (Transactions)
+_TRANSL = re.compile(r"\b(?:[Tt]ranslated(?:\s+from\s+(?:the\s+)?[A-Za-zäöüé]+)?\s+by|transl?\.(?:\s+by)?"
+                     r"|[Tt]r\.\s+by)\s+")
+_EDITED_BY = re.compile(r"[,.]\s*(?:edited|ed\.|eds\.|translated)\s+by\s+")
+_NAME_GLUE = frozenset(("and", "&", "-", "van", "von", "der", "den", "de", "la", "du", "di", "da", "le"))
+
+
+def _index(tokens: list[Token], starts: list[int], lo: int, hi: int) -> range:
+    """Tokens lying inside the character span [lo, hi)."""
+    i = bisect_left(starts, lo)
+    j = i
+    while j < len(tokens) and tokens[j].end <= hi:
+        j += 1
+    return range(i, j)
+
+
+_ISO_GATE = re.compile(r"\d-[01]\d-[0-3]\d")
+
+
+def _month_gate(text: str) -> bool:
+    # unrolled: a generator over 12 names costs more than the whole test
+    return ("Jan" in text or "Feb" in text or "Mar" in text or "Apr" in text or "May" in text or "Jun" in text
+            or "Jul" in text or "Aug" in text or "Sep" in text or "Oct" in text or "Nov" in text or "Dec" in text)
+
+
+def _version_gate(text: str) -> bool:
+    if "ersion" in text or "er." in text:
+        return True
+    for v in "vV":   # a glued "v2.1": few v's per line, str.find beats a regex scan
+        i = text.find(v)
+        while i >= 0:
+            if text[i + 1:i + 2].isdigit():
+                return True
+            i = text.find(v, i + 1)
+    return False
+
+
+def repair(text: str, tokens: list[Token], labels: list[str], marg: list[float]) -> None:
+    """Apply every repair in place (labels and marginals).  Each runs only
+    when cheap substring tests say its input class can be present (this
+    runs on every line)."""
+    if not tokens:
+        return
+    starts = None
+
+    def st() -> list[int]:
+        nonlocal starts
+        if starts is None:
+            starts = [t.start for t in tokens]
+        return starts
+
+    access = "ccess" in text or "etriev" in text or "isited" in text or "iewed" in text or "onsulted" in text
+    version = _version_gate(text)
+    if access or version:
+        _access_and_version(text, tokens, st(), labels, marg, access, version)
+    if _month_gate(text) or text.count("-") >= 2 and _ISO_GATE.search(text):
+        _full_dates(text, tokens, st(), labels, marg)
+    if "date" not in labels:
+        _odd_year(tokens, labels, marg)
+    if "ep" in text or "rint" in text:
+        _report_number(text, tokens, st(), labels)
+    if "rans" in text or "r. by" in text:
+        _translators(text, tokens, st(), labels, marg)
+    if " by " in text:
+        _title_before_role(text, tokens, st(), labels, marg)
+    if "(" in text and not ("container_title" in labels and "volume" in labels):
+        # (with a journal and a volume found, the usual right case, nothing to do)
+        _journal_volume_year(text, tokens, st(), labels, marg)
+    if labels[0] == "authors":
+        _vancouver_initials(tokens, labels)
+    if "doi" in text or "DOI" in text or "Doi" in text:
+        _junk_after_doi(text, tokens, st(), labels)
+
+
+def _access_and_version(text, tokens, starts, labels, marg, access: bool = True, version: bool = True) -> None:
+    """``accessed 3 May 2020`` and ``version 2.1`` are notes: the model has
+    no accessed date or version, and neither is the issued date nor a page."""
+    if access:
+        for m in _ACCESS.finditer(text):
+            for i in _index(tokens, starts, m.start(), m.end()):
+                labels[i] = "note"
+                marg[i] = min(marg[i], 0.9)
+    if version:
+        for m in _VERSION.finditer(text):
+            idx = _index(tokens, starts, m.start(), m.end())
+            if not idx or any(labels[i] in ("authors", "container_title", "pages") for i in idx) \
+                    or idx[0] > 0 and labels[idx[0]] == "title" and labels[idx[0] - 1] == "title":
+                continue   # "... version 2 of the conjecture": part of a title
+            for i in idx:
+                labels[i] = "note"
+                marg[i] = min(marg[i], 0.9)
+
+
+def _full_dates(text, tokens, starts, labels, marg) -> None:
+    """A full date whose day and month the labeler left unlabeled (or filed
+    as a note): the whole date is the date.  A bare year elsewhere that
+    repeats its year is then dropped (the first date run wins in assembly)."""
+    for m in _FULL_DATE.finditer(text):
+        if _ACCESS_BEFORE.search(text, max(0, m.start() - 30), m.start()):
+            continue   # an access date (see _access_and_version)
+        idx = _index(tokens, starts, m.start(), m.end())
+        if not idx or not any(labels[i] == "date" for i in idx):
+            # only a date the labeler saw (partly) as one: "15 May 2020" can
+            # also be an access date or sit inside a title
+            if not idx or not all(labels[i] in ("O", "note") for i in idx) or not (
+                    _bracketed(tokens, idx) or not text[m.end():].strip(" .;,")):
+                continue   # not "(15 March 2005)" nor ", 15 March 2005." at the end
+        if not all(labels[i] in ("O", "date", "note") for i in idx):
+            continue
+        known = [marg[i] for i in idx if labels[i] == "date"]
+        conf = min(known) if known else 0.8
+        for i in idx:
+            labels[i] = "date"
+            marg[i] = conf
+        year = m.group()[-4:] if not m.group()[4:5] == "-" else m.group()[:4]
+        for j, t in enumerate(tokens):
+            if j not in idx and labels[j] == "date" and t.text == year and t.kind == "num" \
+                    and (j == 0 or labels[j - 1] != "date") and (j + 1 >= len(tokens) or labels[j + 1] != "date"):
+                labels[j] = "O"
+        return
+
+
+def _bracketed(tokens: list[Token], idx: range) -> bool:
+    return idx[0] > 0 and idx[-1] + 1 < len(tokens) and tokens[idx[0] - 1].text == "(" \
+        and tokens[idx[-1] + 1].text == ")"
+
+
+def _odd_year(tokens, labels, marg) -> None:
+    """``(1450)`` or ``(2095)`` after a volume: a year outside the range the
+    labeler knows is still the date (validation doubts it later)."""
+    if "date" in labels:
+        return
+    for i in range(1, len(tokens) - 1):
+        t = tokens[i]
+        if t.kind == "num" and len(t.text) == 4 and t.text[0] in "12" and tokens[i - 1].text == "(" \
+                and tokens[i + 1].text == ")" and labels[i] in ("O", "container_title", "volume", "issue", "title") \
+                and i >= 2 and tokens[i - 2].kind == "num":
+            labels[i - 1] = labels[i + 1] = "O"
+            labels[i] = "date"
+            marg[i] = min(marg[i], 0.5)
+            return
+
+
+def _report_number(text, tokens, starts, labels) -> None:
+    """The number of a technical report goes to the note (the model has no
+    report-number field), its "Report" word to the genre."""
+    for m in _REPORT_NO.finditer(text):
+        word = _index(tokens, starts, m.start("word"), m.end("word"))
+        num = _index(tokens, starts, m.start("num"), m.end("num"))
+        if not word or not num:
+            continue
+        if any(labels[i] == "authors" for i in word):
+            continue
+        if any(labels[i] == "container_title" for i in word) and any(
+                lab == "container_title" and i not in word and i not in num for i, lab in enumerate(labels)):
+            continue   # a journal with "Report" in its name, not only the report phrase
+        for i in word:
+            if labels[i] in ("O", "title", "note", "series", "publisher", "container_title"):
+                labels[i] = "genre"
+        for i in num:
+            labels[i] = "note"
+        if word[-1] + 1 == num[0] and tokens[word[-1]].text == ".":
+            labels[word[-1]] = "genre"
+
+
+def _translators(text, tokens, starts, labels, marg) -> None:
+    """``translated by A. Quill``, ``trans. A. Quill``, ``(transl. A.
+    Quill)``: the names after the phrase are translators.  The phrase words
+    go with them (the name splitter drops role words)."""
+    n = len(tokens)
+    for m in _TRANSL.finditer(text):
+        idx = _index(tokens, starts, m.start(), m.end())
+        if not idx:
+            continue
+        j = idx[-1] + 1
+        k = j
+        while k < n:
+            t = tokens[k]
+            if t.kind == "initial" or t.kind == "word" and (t.text[:1].isupper() or t.text in _NAME_GLUE) \
+                    or t.kind == "dash" and k > j:
+                k += 1
+            elif t.text == "," and k + 1 < n and tokens[k + 1].kind == "initial":
+                k += 1
+            else:
+                break
+        if not any(tokens[x].kind == "word" and tokens[x].text[:1].isupper() for x in range(j, k)):
+            continue
+        if any(labels[x] in ("authors", "editors") for x in range(j, k)) and labels[idx[0]] in ("authors", "editors"):
+            continue   # the labeler read "trans." inside a name list: unsure, leave it
+        # "translated (from the Russian) by": words of the phrase, no name;
+        # "trans." / "transl.": part of the run, the name splitter drops it
+        abbrev = tokens[idx[0]].text in ("trans", "transl")
+        for x in idx:
+            labels[x] = "translators" if abbrev else "O"
+        for x in range(j, k):
+            labels[x] = "translators"
+            marg[x] = min(marg[x], 0.9)
+
+
+def _title_before_role(text, tokens, starts, labels, marg) -> None:
+    """``Topics in Enumeration, edited by F. Vellum, ...``: no title and no
+    author, the words before the role phrase are the title."""
+    if "title" in labels or "authors" in labels:
+        return
+    m = _EDITED_BY.search(text)
+    if not m:
+        return
+    idx = _index(tokens, starts, 0, m.start())
+    if not idx or not tokens[idx[0]].text[:1].isupper() or not all(labels[i] == "O" for i in idx):
+        return
+    if not any(t.kind == "word" for t in tokens[: idx[-1] + 1]):
+        return
+    for i in idx:
+        labels[i] = "title"
+        marg[i] = min(marg[i], 0.7)
+
+
+# small words inside journal names ("Reports on Mathematical Physics")
+_JOURNAL_GLUE = frozenset("of and on in for the de des der di la et für &".split())
+
+
+def _journal_volume_year(text, tokens, starts, labels, marg) -> None:
+    """``Title, PLoS ONE 8 (2013), e1234``: a capitalised piece after the
+    title's last comma, a number, a bracketed year and then pages is the
+    journal and its volume (the article layout), even when the labeler
+    kept it in the title or took the number for an issue."""
+    n = len(tokens)
+    if labels.count("volume") > 1:
+        return
+    # only positions right before a "(": found by the str method, not a token loop
+    cands = []
+    p = text.find("(")
+    while p > 0:
+        cands.append(bisect_left(starts, p) - 1)
+        p = text.find("(", p + 1)
+    for i in cands:
+        if not 3 <= i < n - 4:
+            continue
+        t = tokens[i]
+        if not (t.kind == "num" and len(t.text) <= 4 and tokens[i + 1].text == "(" and tokens[i + 2].kind == "num"
+                and len(tokens[i + 2].text) == 4 and tokens[i + 3].text == ")" and labels[i + 2] == "date"):
+            continue
+        if labels[i] not in ("title", "container_title", "issue", "volume"):
+            continue
+        after = i + 4
+        if after < n and tokens[after].text in ",:." :
+            after += 1
+        if after >= n or labels[after] != "pages":
+            continue
+        c = i - 1
+        while c > 0 and i - c <= 10 and (tokens[c].text == "." or tokens[c].kind in ("word", "initial")
+                                          and (tokens[c].text[:1].isupper() or tokens[c].text in _JOURNAL_GLUE)):
+            c -= 1
+        if tokens[c].text != "," or c == i - 1 or not tokens[c + 1].text[:1].isupper():
+            continue
+        if not any(labels[x] in ("title", "container_title") for x in range(0, c)):
+            continue
+        if any(labels[x] == "container_title" for x in range(c + 1, i)) and (
+                labels[i] == "volume" or labels[c] != "container_title"):
+            continue   # the labeler saw the journal: leave its edges alone
+        if "title" not in labels[:c] and "container_title" in labels[:c]:
+            for x in range(0, c):
+                if labels[x] == "container_title":
+                    labels[x] = "title"
+        for x in range(0, c):
+            if labels[x] == "container_title":
+                labels[x] = "title"
+        labels[c] = "O"
+        for x in range(c + 1, i):
+            labels[x] = "container_title"
+            marg[x] = min(marg[x], 0.8)
+        labels[i] = "volume"
+        marg[i] = min(marg[i], 0.8)
+        return
+
+
+def _vancouver_initials(tokens, labels) -> None:
+    """``Featherstone AB, Penrake EF. Title``: the capital initials of the
+    last name, printed without periods, belong to the author list."""
+    n = len(tokens)
+    if n < 4 or labels[0] != "authors":
+        return
+    end = 0
+    while end + 1 < n and labels[end + 1] == "authors":
+        end += 1
+    x = end + 1
+    if x + 1 < n and labels[x] == "O" and len(tokens[x].text) <= 3 and _caps(tokens[x].text) and tokens[x].kind == "word" \
+            and tokens[x + 1].text in ".," and tokens[end].kind == "word" and tokens[x].start == tokens[end].end + 1 \
+            and any(_caps(tokens[y].text) and tokens[y].kind == "word" for y in range(1, end)):
+        labels[x] = "authors"
+
+
+def _caps(w: str) -> bool:
+    return 1 <= len(w) <= 3 and w.isalpha() and w.isupper()
+
+
+_DOI_WORD = re.compile(r"(?i)doi(?:\s*:\s*|\s+)(?=\S)")
+
+
+def _junk_after_doi(text, tokens, starts, labels) -> None:
+    """``doi:10.abc/xyz``: a "doi:" whose value is no DOI (the identifier
+    finder did not take it).  Its tokens are no page, title or volume; the
+    validation pass records the value as an invalid DOI."""
+    for m in bad_doi_mentions(text, tokens):
+        for i in _index(tokens, starts, m[0], m[2]):
+            labels[i] = "O"
+
+
+_DOI_VALUE = re.compile(r"[^\s,;]+")
+
+
+def bad_doi_mentions(text: str, tokens: list[Token]) -> list[tuple[int, int, int]]:
+    """(keyword start, value start, value end) of each "doi" keyword whose
+    value the identifier finder did not accept."""
+    out: list[tuple[int, int, int]] = []
+    if "doi" not in text.lower():
+        return out
+    covered = [(t.start, t.end) for t in tokens if t.ident is not None]
+    for m in _DOI_WORD.finditer(text):
+        if m.start() and (text[m.start() - 1].isalnum() or text[m.start() - 1] in "_/."):
+            continue   # "...doi" inside a word or a URL
+        v = _DOI_VALUE.match(text, m.end())
+        if not v:
+            continue
+        end = v.end()
+        while end > v.start() and text[end - 1] in ".,;:)]}":
+            end -= 1
+        if end <= v.start() or any(s < end and m.start() < e for s, e in covered):
+            continue
+        if not any(ch.isdigit() or ch == "/" for ch in text[v.start():end]):
+            continue   # "DOI not available": no attempt at a DOI
+        out.append((m.start(), v.start(), end))
+        if len(out) >= 20:
+            break   # a junk line full of "doi": enough to doubt it, and stays linear
+    return out
