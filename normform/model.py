@@ -171,6 +171,11 @@ class Reference:
     identifiers: tuple[Identifier, ...] = ()
     note: str | None = None
     key: str | None = None               # citation key / record id, when the source has one
+    # The work's own number, as typed without "No.": a report's or preprint's
+    # number ("TR-2007-13", "12"); CSL "number" of a report.
+    report_number: str | None = None
+    accessed: Date | None = None         # when a web page or online copy was consulted
+    version: str | None = None           # software or data-set version, without "version"/"v" ("2.1")
     # Substrings of the title whose capitalization must survive restyling
     # (BibTeX protective braces, acronyms).
     title_protected: tuple[str, ...] = ()

@@ -111,6 +111,20 @@ def dates(draw):
     return Date(year=year, month=month, day=day, season=season)
 
 
+@st.composite
+def accessed_dates(draw):
+    """Access dates as typed in references: a full ISO-expressible date mostly, or a literal."""
+    if draw(st.integers(0, 5)) == 0:
+        return Date(literal=draw(st.sampled_from(["n.d.", "last week", "Spring term"])))
+    year = draw(st.integers(1990, 2030))
+    month = draw(st.none() | st.integers(1, 12))
+    day = draw(st.integers(1, 31)) if month and draw(st.integers(0, 3)) else None
+    return Date(year=year, month=month, day=day)
+
+
+_REPORT_NUMBER = st.one_of(st.integers(1, 999).map(str), st.sampled_from(["TR-2007-13", "2004/17", "Q-12a"]))
+_VERSION = st.sampled_from(["2.1", "0.9.3", "1", "2021.03", "3.0-beta"])
+
 _FIELDS = ["title", "author", "year", "container_title", "pages"]
 
 
@@ -151,5 +165,7 @@ def references(draw, bibtex=True):
         publisher=draw(_opt(TEXT)), place=draw(_opt(_words(1, 2))), edition=draw(_opt(st.sampled_from(["2nd", "3", "Revised"]))),
         genre=genre, language=draw(_opt(st.sampled_from(["english", "french", "de"]))),
         identifiers=draw(identifiers()), note=draw(_opt(TEXT)), key=draw(_KEY),
+        report_number=draw(_opt(_REPORT_NUMBER)), accessed=draw(_opt(accessed_dates())),
+        version=draw(_opt(_VERSION)),
         extra=extra, provenance=draw(_opt(provenances())),
     )

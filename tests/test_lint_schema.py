@@ -56,3 +56,14 @@ def test_shape_walker_agrees_with_jsonschema(name, data):
     elif target:
         target[data.draw(st.integers(0, len(target) - 1))] = data.draw(_junk)
     assert VALIDATOR.is_valid(entry) == (not list(check(entry)))
+
+
+def test_reference_table_with_report_number_version_and_accessed_date():
+    from normform.lint.refs_facts import reference_from_table
+    table = {"kind": "report", "title": "Quill counts", "report_number": "TR-2007-13", "version": "2.1",
+             "accessed": "2020-05-03", "year": 2007}
+    entry = {"id": "Q000999", "name": "x", "references": [table]}
+    assert not [e for e in VALIDATOR.iter_errors(entry) if "references" in list(e.absolute_path)]
+    ref = reference_from_table(table)
+    assert (ref.report_number, ref.version) == ("TR-2007-13", "2.1")
+    assert (ref.accessed.year, ref.accessed.month, ref.accessed.day) == (2020, 5, 3)

@@ -14,7 +14,7 @@ import pytest
 from stdnum import isbn as stdnum_isbn
 
 from normform.export.csljson import CslJsonExporter
-from normform.model import Date, Kind, Reference, Provenance, FieldInfo, Span
+from normform.model import Date, Kind, Name, Reference, Provenance, FieldInfo, Span
 from normform.refs import kinds, relabel, validate
 from normform.refs.api import parse_reference
 from normform.refs.namelist import split_names
@@ -172,33 +172,72 @@ def test_kinds_details_without_labeler():
     assert (ref.kind, ref.genre, ref.title) == (Kind.THESIS, "Habilitationsschrift", "Zählen von Federn")
 
 
-def test_report_number_goes_to_note():
-    # the model has no report-number field: the number stays in note as typed
-    ref = parse_reference("C. Inkwell, Counting feathers in the plane, Tech. Rep. TR-2007-13, "
-                          "Quillfeather University, 2007.")
-    assert ref.kind is Kind.REPORT and "TR-2007-13" in (ref.note or "")
+def test_report_number_field():
+    # relabel files the number as note tokens; kinds.details moves it to report_number
+    line = "C. Inkwell, Counting feathers in the plane, Tech. Rep. TR-2007-13, Quillfeather University, 2007."
+    ref = parse_reference(line)
+    assert ref.kind is Kind.REPORT and ref.report_number == "TR-2007-13"
+    assert "TR-2007-13" not in (ref.note or "")
+    span = ref.provenance.info("report_number").span
+    assert line[span.start:span.end] == "TR-2007-13"
     text = "C. Inkwell, Counting feathers, Report No. 12, Quillfeather Society, 2007."
     tokens, labels = _relabel(text, {"12": "series_number", "Report": "O"})
     assert _field(tokens, labels, "note") == "No . 12" and _field(tokens, labels, "genre") == "Report"
+    # CSL "number" of a report is its number (CSL 1.0.2 variable list, from memory)
+    ref = parse_reference(text)
+    assert ref.report_number == "12" and CslJsonExporter().record(ref)["number"] == "12"
 
 
-def test_accessed_date_is_a_note_not_the_issued_date():
+def test_report_number_leaves_the_rest_of_the_note():
+    ref = kinds.details(Reference(kind=Kind.REPORT, genre="Preprint", note="2004-17; with an appendix"),
+                        "Q. Vellum, Quill tables, Preprint 2004-17, Quillfeather Society, 2004, with an appendix.")
+    assert (ref.report_number, ref.note) == ("2004-17", "with an appendix")
+
+
+def test_accessed_date_is_not_the_issued_date():
     text = "QSEM editors, The Quill Tables, https://qsem.example.org/tables, accessed 3 May 2020."
     tokens, labels = _relabel(text, {"2020": "date", "The": "title", "Quill": "title", "Tables": "title"})
     assert "date" not in labels and _field(tokens, labels, "note") == "accessed 3 May 2020"
     ref = parse_reference("QSEM Working Group, The Quill Tables, web page, https://qsem.example.org/tables, "
                           "accessed 3 May 2020.")
-    assert "accessed 3 May 2020" in (ref.note or "")
-    assert "accessed" not in (ref.title or "") and ref.year is None
+    assert ref.accessed == Date(year=2020, month=5, day=3)
+    assert "accessed" not in (ref.note or "") and "accessed" not in (ref.title or "") and ref.year is None
+    assert CslJsonExporter().record(ref)["accessed"] == {"date-parts": [[2020, 5, 3]]}
 
 
-def test_software_version_in_note():
+@pytest.mark.parametrize("typed, date", [
+    ("retrieved 2020-05-03", Date(2020, 5, 3)),
+    ("last accessed on May 3, 2021", Date(2021, 5, 3)),
+    ("accessed March 2019", Date(2019, 3)),
+    ("accessed 13/05/2020", Date(2020, 5, 13)),
+    ("accessed 03/05/2020", Date(literal="03/05/2020")),   # day and month cannot be told apart
+])
+def test_accessed_date_forms(typed, date):
+    text = f"QSEM, Feather counts, https://qsem.example.org/f, {typed}."
+    ref = kinds.details(Reference(kind=Kind.WEBPAGE, title="Feather counts", note=typed), text)
+    assert ref.accessed == date and ref.note is None
+
+
+def test_software_version_field():
     ref = parse_reference("N. Feathergill, Quillcount, version 2.1, software, 2019. https://example.org/quillcount")
-    assert ref.kind is Kind.SOFTWARE and "version 2.1" in (ref.note or "")
+    assert ref.kind is Kind.SOFTWARE and ref.version == "2.1" and "2.1" not in (ref.note or "")
+    # a glued "v2.1" reaches the note without its "v"
+    ref = kinds.details(Reference(kind=Kind.SOFTWARE, title="Quillcount", note="2.1; 2nd printing"),
+                        "N. Feathergill, Quillcount, v2.1, software, 2019, 2nd printing.")
+    assert (ref.version, ref.note) == ("2.1", "2nd printing")
     # "v. 12" of older styles is a volume, not a version
     text = "A. Quill, Nibs, Quill Quart. v. 12 (1950), 1-9."
     tokens, labels = _relabel(text, {"12": "volume"})
     assert "note" not in labels
+
+
+def test_corporate_name_ending_in_a_role_word():
+    # "ed" of "editors" is no role abbreviation: the role word must be a whole word
+    assert split_names("QSEM editors")[0] == (Name(literal="QSEM editors"),)
+    assert split_names("A. Quill, editor")[0] == (Name(family="Quill", given="A."),)
+    assert [n.family for n in split_names("A. Quill and B. Vellum, editors")[0]] == ["Quill", "Vellum"]
+    ref = parse_reference("QSEM editors, The Quill Tables, https://qsem.example.org/tables, accessed 3 May 2020.")
+    assert ref.authors == (Name(literal="QSEM editors"),)
 
 
 # --- #10 final period of an abbreviated venue --------------------------------------------------

@@ -3,7 +3,10 @@
 Unicode output by default; ``unicode=False`` writes every non-ASCII letter
 as a TeX command (``{\\"o}``).  Identifiers go in the conventional fields:
 ``doi``, ``eprint``/``archiveprefix``/``primaryclass``, ``mrnumber``, ``zbl``,
-``isbn``, ``issn``, ``url``.  Provenance (raw text, confidences) is kept in
+``isbn``, ``issn``, ``url``.  A report's number is ``number`` of ``@techreport``
+(elsewhere our own ``reportnumber``); the accessed date is biblatex ``urldate``
+(ISO date; classic BibTeX styles ignore it), a version biblatex ``version``.
+Provenance (raw text, confidences) is kept in
 ``normform-*`` fields so that a BibTeX round trip loses nothing.
 """
 
@@ -17,7 +20,7 @@ from typing import Iterable
 from normform import capitals
 from normform.export.base import Exporter, KeyMaker
 from normform.ids import isbn as _isbn, issn as _issn
-from normform.model import Kind, Reference
+from normform.model import Date, Kind, Reference
 from normform.names import format_names
 from normform.readers.bibtex import MASTERS, VERBATIM
 from normform.texconv import protect_literal_braces, to_latex
@@ -47,6 +50,18 @@ def encode_verbatim(text: str, ascii: bool = False) -> str:
     out = out.replace("{", "\\u007b").replace("}", "\\u007d")
     out = re.sub(r"[^\S ]", lambda m: f"\\u{ord(m.group()):04x}", out)  # blanks BibTeX would fold
     return re.sub(r" (?= )|^ | $", r"\\u0020", out)
+
+
+def urldate(date: Date) -> str:
+    """biblatex ``urldate``: ISO ``YYYY-MM-DD`` (or shorter); a date ISO cannot say
+    (a literal, a season, circa) is written as its text and read back as a literal."""
+    parts = [date.year, date.month, date.day]
+    while parts and parts[-1] is None:
+        parts.pop()
+    if parts and None not in parts and not (date.season or date.circa or date.literal):
+        return "-".join([f"{parts[0]:04d}"] + [f"{p:02d}" for p in parts[1:]])
+    bits = [date.season, ("c. " if date.circa else "") + str(date.year) if date.year else None, date.literal]
+    return " ".join(b for b in bits if b) or "n.d."
 
 
 class BibtexExporter(Exporter):
@@ -101,9 +116,15 @@ class BibtexExporter(Exporter):
         if article:
             add("number", ref.issue)
             add("seriesnumber", ref.series_number)
+        elif ref.kind is Kind.REPORT:   # @techreport "number" is the report's own number
+            add("number", ref.report_number)
+            add("seriesnumber", ref.series_number)
+            add("issue", ref.issue)
         else:
             add("number", ref.series_number)
             add("issue", ref.issue)
+        if ref.kind is not Kind.REPORT:
+            add("reportnumber", ref.report_number)   # our own field: no standard one outside reports
         if ref.pages:
             p = ref.pages
             if p.first or p.last:
@@ -112,6 +133,7 @@ class BibtexExporter(Exporter):
             add("eid", p.article)
             add("pagetotal", p.count)
         add("edition", ref.edition)
+        add("version", ref.version)
         if ref.genre and not (ref.kind is Kind.THESIS and ref.genre == MASTERS):
             add("type", ref.genre)
         where = {Kind.THESIS: "school", Kind.REPORT: "institution"}.get(ref.kind, "publisher")
@@ -131,6 +153,8 @@ class BibtexExporter(Exporter):
                 add("day", str(d.day))
             if d.literal and d.year is not None:
                 add("pubstate", d.literal)
+        if ref.accessed:
+            add("urldate", urldate(ref.accessed))
         add("language", ref.language)
         add("note", ref.note)
         self._identifiers(ref, out)

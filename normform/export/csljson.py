@@ -1,5 +1,10 @@
 """CSL-JSON exporter (CSL 1.0.2 data model: item types and variable names of the specification).
 
+CSL ``number`` is a report's number for reports and the article number
+otherwise; the other one of the two, when present, goes to ``custom``
+(``article_number`` of a report, ``report_number`` of a non-report), so
+reading back is exact.  ``version`` and ``accessed`` are CSL variables.
+
 What CSL has no variable for goes under ``custom``: ``arxiv``, ``mr``, ``zbl``
 (and ``arxiv_class``, ``mr_review``, ``handle``), the raw text ``raw``, the
 record ``confidence``, per-field ``field_confidence`` and ``field_spans``,
@@ -78,10 +83,22 @@ class CslJsonExporter(Exporter):
             p = ref.pages
             if p.first is not None or p.last is not None:
                 item["page"] = f"{p.first or ''}-{p.last}" if p.last is not None else p.first
-            put("number", p.article)
+            if ref.kind is Kind.REPORT:   # a report's "number" is its report number (below)
+                if p.article is not None:
+                    custom["article_number"] = p.article
+            else:
+                put("number", p.article)
             put("number-of-pages", p.count)
+        if ref.report_number is not None:
+            if ref.kind is Kind.REPORT:
+                item["number"] = ref.report_number
+            else:   # elsewhere CSL "number" holds the article number
+                custom["report_number"] = ref.report_number
+        put("version", ref.version)
         if ref.date:
             item["issued"] = csl_date(ref.date)
+        if ref.accessed:
+            item["accessed"] = csl_date(ref.accessed)
         put("publisher", ref.publisher)
         put("publisher-place", ref.place)
         put("edition", ref.edition)

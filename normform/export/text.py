@@ -10,7 +10,9 @@ docs/io.md):
 * article: ``Journal Volume:Issue (Year), first-last`` (or ``Art. N``);
 * book: ``Series Number, Publisher, Place, Year`` with ``ed. N``;
 * chapter / paper: ``in: Container, Publisher, Year, pp. first-last``;
-* thesis / report: genre, institution, year;
+* thesis / report: genre with the report's number (``Report No. 12``), institution, year;
+* a version after the title (``version 2.1``); an accessed date last, after the URL
+  (``accessed 3 May 2020``);
 * identifiers last, in a fixed order: doi, arXiv (with class), MR, Zbl, ISBN, handle, URL
   (a URL only when there is no DOI or arXiv id).
 """
@@ -22,7 +24,7 @@ from typing import Iterable
 
 from normform.export.base import Exporter
 from normform.ids import arxiv, isbn, mr, zbl
-from normform.model import Kind, Name, Reference
+from normform.model import Date, Kind, Name, Reference
 
 
 def initials(given: str) -> str:
@@ -61,6 +63,29 @@ def _edition(edition: str) -> str:
     return f"{edition} ed."
 
 
+MONTH_NAMES = ("January", "February", "March", "April", "May", "June", "July", "August", "September",
+               "October", "November", "December")
+
+
+def date_text(date: Date) -> str:
+    """``3 May 2020``, ``May 2020``, ``2020``, ``Spring 2020``, ``c. 2020`` or the literal."""
+    bits = [str(date.day) if date.day and date.month else None,
+            MONTH_NAMES[date.month - 1] if date.month and 1 <= date.month <= 12 else None,
+            date.season, (f"c. {date.year}" if date.circa else str(date.year)) if date.year else None]
+    text = " ".join(b for b in bits if b)
+    return " ".join(b for b in (text, date.literal) if b) or "n.d."
+
+
+def number_text(number: str) -> str:
+    """``12`` -> ``No. 12``; a number with its own letters (``TR-2007-13``) is shown as is."""
+    return f"No. {number}" if number[:1].isdigit() else number
+
+
+def version_text(version: str) -> str:
+    """``2.1`` -> ``version 2.1``; text that already says version is kept."""
+    return version if re.match(r"(?i)v(?:er(?:sion)?)?\b|v\d", version) else f"version {version}"
+
+
 def _range(first: str | None, last: str | None) -> str | None:
     if first and last:
         return f"{first}-{last}"
@@ -79,6 +104,8 @@ class HouseStyle(Exporter):
             out.append(name_list(ref.editors) + (" (eds.)" if len(ref.editors) > 1 else " (ed.)"))
         if ref.title:
             out.append(ref.title)
+        if ref.version:
+            out.append(version_text(ref.version))
         d = ref.date
         year = None
         if d:
@@ -86,6 +113,8 @@ class HouseStyle(Exporter):
         p = ref.pages
         pages = _range(p.first, p.last) if p else None
         if ref.kind is Kind.ARTICLE:
+            if ref.report_number:
+                out.append(number_text(ref.report_number))
             venue = ref.container_title or ""
             if ref.volume:
                 venue += f" {ref.volume}" + (f":{ref.issue}" if ref.issue else "")
@@ -112,10 +141,12 @@ class HouseStyle(Exporter):
                            + (f", vol. {ref.volume}" if ref.volume else ""))
             elif ref.volume:
                 out.append(f"vol. {ref.volume}")
-            if ref.genre:
-                out.append(ref.genre)
-            elif ref.kind is Kind.THESIS:
-                out.append("thesis")
+            label = ref.genre or ("thesis" if ref.kind is Kind.THESIS else None)
+            if ref.report_number:
+                label = " ".join(p for p in (label or ("Report" if ref.kind is Kind.REPORT else None),
+                                             number_text(ref.report_number)) if p)
+            if label:
+                out.append(label)
             for piece in (ref.publisher, ref.place, year):
                 if piece:
                     out.append(piece)
@@ -154,6 +185,9 @@ class HouseStyle(Exporter):
             text += f" {ref.note.rstrip('.')}."
         if idents:
             text += " " + "; ".join(idents)
+        if ref.accessed:   # after the identifiers (the URL is the last of them)
+            when = date_text(ref.accessed)
+            text = f"{text}, accessed {when}." if idents else f"{text} Accessed {when}."
         return text.strip()
 
     record = format

@@ -115,9 +115,16 @@ def reference_from_table(table: dict):
     except ValueError:
         kind = Kind.OTHER
     text_fields = {k: table[k] for k in ("title", "container_title", "series", "series_number", "volume",
-                                          "issue", "publisher", "place", "edition", "genre", "note")
+                                          "issue", "publisher", "place", "edition", "genre", "note",
+                                          "report_number", "version")
                    if isinstance(table.get(k), str)}
-    return Reference(kind=kind, authors=names("authors"), editors=names("editors"), pages=pages,
+    accessed = None
+    if isinstance(table.get("accessed"), str):
+        parts = [int(p) for p in re.findall(r"\d+", table["accessed"])[:3]]
+        if parts:
+            accessed = Date(year=parts[0], month=parts[1] if len(parts) > 1 else None,
+                            day=parts[2] if len(parts) > 2 else None)
+    return Reference(kind=kind, authors=names("authors"), editors=names("editors"), pages=pages, accessed=accessed,
                      date=Date(year=year) if isinstance(year, int) else None, identifiers=idents,
                      provenance=Provenance(confidence=1.0), **text_fields)
 

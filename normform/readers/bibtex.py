@@ -285,6 +285,17 @@ def _date(values: dict[str, str], extra: list[tuple[str, str]]) -> Date | None:
     return Date(year=year, month=month, day=day, season=season, circa=circa, literal=literal)
 
 
+def _accessed(text: str | None) -> Date | None:
+    """biblatex ``urldate``: ISO ``YYYY[-MM[-DD]]``; other text is kept as a literal date."""
+    if not text:
+        return None
+    m = re.fullmatch(r"(\d{4})(?:-(\d{2}))?(?:-(\d{2}))?", text.strip())
+    if not m:
+        return Date(literal=text)
+    return Date(year=int(m.group(1)), month=int(m.group(2)) if m.group(2) else None,
+                day=int(m.group(3)) if m.group(3) else None)
+
+
 def _idents(values: dict[str, str]) -> list[Identifier]:
     out: list[Identifier] = []
 
@@ -346,14 +357,22 @@ def to_reference(entry_type: str, key: str, fields: dict[str, str]) -> Reference
     title_tex = values.get("title")
     title = _text(values, "title")
     protected = capitals.canonical_hints(title, title_hints(title_tex)) if title and title_tex else ()
+    report_number = None
     if kind is Kind.ARTICLE:
         container = _text(values, "journal") or _text(values, "journaltitle")
         issue = _text(values, "number") or _text(values, "issue")
+        series_number = _text(values, "seriesnumber")
+    elif kind is Kind.REPORT:   # a report's "number" is its own number
+        container = _text(values, "booktitle")
+        issue = _text(values, "issue")
+        report_number = _text(values, "number")
         series_number = _text(values, "seriesnumber")
     else:
         container = _text(values, "booktitle")
         issue = _text(values, "issue")
         series_number = _text(values, "number")
+    if report_number is None:
+        report_number = _text(values, "reportnumber")
     genre = _text(values, "type")
     if kind is Kind.THESIS and genre is None and entry_type == "mastersthesis":
         genre = MASTERS
@@ -372,6 +391,7 @@ def to_reference(entry_type: str, key: str, fields: dict[str, str]) -> Reference
         base = parse_pages(pages_text) if pages_text else Pages()
         pages = Pages(first=base.first, last=base.last, article=article, count=count)
     date = _date(values, extra)
+    accessed = _accessed(_text(values, "urldate"))
     identifiers = _idents(values)
     provenance = _provenance(values)
     ref = Reference(
@@ -381,6 +401,7 @@ def to_reference(entry_type: str, key: str, fields: dict[str, str]) -> Reference
         volume=_text(values, "volume"), issue=issue, pages=pages, date=date,
         publisher=publisher, place=_text(values, "address") or _text(values, "location"),
         edition=_text(values, "edition"), genre=genre, language=_text(values, "language"),
+        report_number=report_number, accessed=accessed, version=_text(values, "version"),
         identifiers=tuple(identifiers), note=_text(values, "note"), key=key,
         title_protected=protected, provenance=provenance,
         extra=tuple(extra) + tuple((name, value if name in VERBATIM else to_unicode(value))

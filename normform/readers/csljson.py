@@ -1,7 +1,9 @@
 """Read CSL-JSON (CSL 1.0.2) into references: the exact inverse of the CSL-JSON exporter.
 
 Also accepts the top-level extension keys ``arxiv``/``mr``/``zbl`` some
-datasets put beside the CSL variables, and ``number`` of older exports.
+datasets put beside the CSL variables.  ``number`` is the report number of a
+report (CSL types ``report``, ``article``, ``standard``) and the article
+number of anything else.
 """
 
 from __future__ import annotations
@@ -61,8 +63,8 @@ def _str(value) -> str | None:
     return None if value is None else str(value)
 
 
-def _pages(item: dict) -> Pages | None:
-    page, number, count = _str(item.get("page")), _str(item.get("number")), _str(item.get("number-of-pages"))
+def _pages(item: dict, number: str | None) -> Pages | None:
+    page, count = _str(item.get("page")), _str(item.get("number-of-pages"))
     if page is None and number is None and count is None:
         return None
     first = last = None
@@ -114,13 +116,21 @@ def from_csl(item: dict) -> Reference:
         conf = custom.get("confidence")
         provenance = Provenance(raw=custom.get("raw"), fields=fields,
                                 confidence=None if conf is None else float(conf), origin=custom.get("origin"))
+    # CSL "number" of a report is its report number, else the article number
+    # (the exporter keeps the other one under custom)
+    if kind is Kind.REPORT:
+        report_number, article = _str(item.get("number")), _str(custom.get("article_number"))
+    else:
+        report_number, article = _str(custom.get("report_number")), _str(item.get("number"))
     names = lambda role: tuple(_name(n) for n in item.get(role, ()))  # noqa: E731
     return Reference(
         kind=kind, authors=names("author"), editors=names("editor"), translators=names("translator"),
         title=_str(item.get("title")), container_title=_str(item.get("container-title")),
         series=_str(item.get("collection-title")), series_number=_str(item.get("collection-number")),
-        volume=_str(item.get("volume")), issue=_str(item.get("issue")), pages=_pages(item),
+        volume=_str(item.get("volume")), issue=_str(item.get("issue")), pages=_pages(item, article),
         date=_date(item["issued"]) if "issued" in item else None,
+        accessed=_date(item["accessed"]) if "accessed" in item else None,
+        report_number=report_number, version=_str(item.get("version")),
         publisher=_str(item.get("publisher")), place=_str(item.get("publisher-place")),
         edition=_str(item.get("edition")), genre=_str(item.get("genre")), language=_str(item.get("language")),
         identifiers=tuple(identifiers), note=_str(item.get("note")),

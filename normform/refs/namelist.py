@@ -19,8 +19,11 @@ from normform.refs import lexicon as lx
 _SEP = re.compile(r"\s*;\s*|\s*,?\s+(?:and|&|und|et|y|e)\s+|\s*,?\s*&\s*|\s*\band\b\s*")
 _ETAL = re.compile(r"[,;]?\s*(?:et\.?\s*al\.?|and others|y otros|u\.\s?a\.)\s*$", re.I)
 _ROLE = re.compile(
-    r"[,;]?\s*\(?\b(?:eds?\.?|editors?|(?:edited|compiled|translated)\s+by|hrsg\.?|transl?\.|translators?)\)?[.,]?\s*",
-    re.I)
+    r"[,;]?\s*\(?\b(?:eds?\.?|editors?|(?:edited|compiled|translated)\s+by|hrsg\.?|transl?\.|translators?)(?!\w)\)?[.,]?\s*",
+    re.I)   # (?!\w): a whole word only, else "ed" is cut off "editors"
+# "QSEM editors", "The Quill Tables editors": capitalised words (no initials)
+# then a bare plural role word, no comma: a corporate author, not a role
+_CORPORATE_ROLE = re.compile(r"(?:[A-Z][\w&'-]+\s+)+(?:editors|translators)")
 # one given-name piece: "A.", "A", "J.-P.", "Ch.", "A.B."
 _INITIALS = re.compile(r"(?:[^\W\d_][a-z]?\.?(?:-[^\W\d_]\.?)?)+\Z")
 _INITIAL_ONLY = re.compile(r"(?:[^\W\d_][a-z]?\.(?:\s?-?[^\W\d_][a-z]?\.)*|[A-Z]{1,3}(?:-[A-Z])?)\Z")
@@ -82,6 +85,8 @@ def split_names(text: str) -> tuple[tuple[Name, ...], bool]:
     odd = not text.isascii() and _CASE_ODD.search(text) is not None
     low = text.lower()
     if odd or "ed" in low or "trans" in low or "hrsg" in low:
+        if _CORPORATE_ROLE.fullmatch(text):
+            return (Name(literal=text),), etal
         text = _ROLE.sub(" ", text)
     text = text.strip(" ,;:")
     if not text:

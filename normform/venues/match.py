@@ -330,7 +330,7 @@ def _conflicts(query: Reference, record: Reference) -> tuple[Conflict, ...]:
 
 _COPY = ("kind", "authors", "editors", "translators", "title", "container_title", "series",
          "series_number", "volume", "issue", "pages", "date", "publisher", "place", "edition",
-         "genre", "language", "note", "key", "title_protected")
+         "genre", "language", "note", "key", "title_protected", "report_number", "accessed", "version")
 
 HARD_FIELDS = ("year", "volume", "pages")   # two disagreements among these veto a match
 
