@@ -34,15 +34,18 @@ sys.path.insert(0, str(ROOT / "scripts"))
 
 
 def make_input(path: Path, lines: int) -> None:
-    from make_demo_corpus import build
+    """Generate the input in a child process.
 
-    data = build(lines)
-    with open(path, "wb") as handle:
-        for raw in data:
-            handle.write(raw + b"\n")
+    Building a million lines here would leave this process at ~600 MB, and
+    Linux carries a process's pre-exec peak into the ``ru_maxrss`` of the
+    children it starts, which then reported our own memory as clean's.
+    """
+    subprocess.run([sys.executable, str(ROOT / "scripts" / "make_demo_corpus.py"), "--lines", str(lines),
+                    "--out", str(path)], check=True, stdout=subprocess.DEVNULL)
 
 
-def _sample_rss(pid: int, stop: threading.Event, peak: list[int]) -> None:
+def _sample_rss(pid: int, stop: threading.Event, peak: list[int], cpu: dict) -> None:
+    """Peak RSS (sum over the process tree, largest process) and the last CPU times seen per process."""
     try:
         import psutil
     except ImportError:
@@ -51,11 +54,20 @@ def _sample_rss(pid: int, stop: threading.Event, peak: list[int]) -> None:
         proc = psutil.Process(pid)
         while not stop.is_set():
             try:
-                sizes = [proc.memory_info().rss] + [c.memory_info().rss for c in proc.children(recursive=True)]
+                procs = [proc] + proc.children(recursive=True)
+                sizes = []
+                for p in procs:
+                    try:
+                        sizes.append(p.memory_info().rss)
+                        times = p.cpu_times()
+                        cpu[p.pid] = times.user + times.system
+                    except psutil.Error:
+                        pass
             except psutil.Error:
                 break
-            peak[0] = max(peak[0], sum(sizes))
-            peak[1] = max(peak[1], max(sizes))
+            if sizes:
+                peak[0] = max(peak[0], sum(sizes))
+                peak[1] = max(peak[1], max(sizes))
             time.sleep(0.2)
     except psutil.Error:
         pass
@@ -71,8 +83,8 @@ def run_clean(src: Path, out: Path, jobs: int, engine_args: list[str]) -> dict:
            "--jobs", str(jobs), "--quiet", *engine_args]
     start = time.perf_counter()
     proc = subprocess.Popen(cmd, stdout=subprocess.PIPE, stderr=subprocess.PIPE, text=True)
-    stop, peak = threading.Event(), [0, 0]
-    sampler = threading.Thread(target=_sample_rss, args=(proc.pid, stop, peak), daemon=True)
+    stop, peak, cpu_seen = threading.Event(), [0, 0], {}
+    sampler = threading.Thread(target=_sample_rss, args=(proc.pid, stop, peak, cpu_seen), daemon=True)
     sampler.start()
     stdout, stderr = proc.communicate()
     seconds = time.perf_counter() - start
@@ -87,11 +99,27 @@ def run_clean(src: Path, out: Path, jobs: int, engine_args: list[str]) -> dict:
     return {"jobs": jobs, "seconds": seconds, "records": summary["records"],
             "cpu_seconds": cpu, "load": (load0 + os.getloadavg()[0]) / 2,
             "finish_seconds": summary["run"].get("finish_seconds"),
+            "finish_cpu": summary["run"].get("finish_cpu_seconds"),
+            "main_cpu": cpu_seen.get(proc.pid),
+            "worker_cpu": sum(v for k, v in cpu_seen.items() if k != proc.pid),
             "lines_per_s": summary["records"] / seconds,
             "max_process_rss_mb": max(after, before) / 1024,   # ru_maxrss is in KiB on Linux
             "sum_rss_mb": peak[0] / 2**20 if peak[0] else None,
             "largest_sampled_mb": peak[1] / 2**20 if peak[1] else None,
             "check": stdout.strip().splitlines()[0]}
+
+
+def parser_rate(src: Path, lines: int = 2000) -> float:
+    """The reference parser's own speed on the same input, so parser and pipeline effects separate."""
+    import normform
+
+    texts = [t for t in src.read_bytes().decode("utf-8", "replace").splitlines()[:lines] if t.strip()]
+    for text in texts[:50]:
+        normform.parse_reference(text)   # warm-up: model loading
+    start = time.process_time()
+    for text in texts:
+        normform.parse_reference(text)
+    return len(texts) / (time.process_time() - start)
 
 
 def pybtex_rate(bib: Path, limit: int = 20000) -> float:
@@ -134,11 +162,25 @@ def main() -> int:
                   f"{r['lines_per_s']:,.0f} lines/s ({r['lines_per_s'] / jobs:,.0f} per job); "
                   f"peak RSS (ru_maxrss, max over all runs so far) {r['max_process_rss_mb']:.0f} MB{sums}")
             print(f"         CPU {r['cpu_seconds']:.0f}s = {r['records'] / r['cpu_seconds']:,.0f} lines per CPU-second; "
-                  f"clustering+report {r['finish_seconds']}s; machine load average ~{r['load']:.1f}")
+                  f"clustering+report {r['finish_seconds']}s (CPU {r['finish_cpu']}s); machine load average ~{r['load']:.1f}")
+            if r["main_cpu"] is not None:
+                # Amdahl: the main process's CPU is the serial part, the workers' CPU splits over jobs
+                main, work = r["main_cpu"], r["worker_cpu"] if jobs > 1 else 0.0
+                print(f"         CPU split (sampled): main process {main:.0f}s, workers {work:.0f}s")
             print(f"         {r['check']}")
         if len(runs) > 1:
             print(f"speed-up {runs[0]['jobs']} -> {runs[-1]['jobs']} jobs: "
                   f"{runs[-1]['lines_per_s'] / runs[0]['lines_per_s']:.2f}x")
+        if runs[0]["jobs"] == 1 and runs[0]["main_cpu"]:
+            serial = runs[0]["finish_cpu"] or runs[0]["finish_seconds"] or 0.0
+            total = runs[0]["main_cpu"]
+            for n in (2, 4):
+                print(f"Amdahl bound from the 1-job CPU ({total:.0f}s, of which clustering+report "
+                      f"{serial:.1f}s run in one process): {n} jobs on {n} idle cores <= "
+                      f"{total / ((total - serial) / n + serial):.2f}x")
+        parsed = parser_rate(src)
+        print(f"parser alone (normform.parse_reference, same input, first 2,000 lines, this process): "
+              f"{parsed:,.0f} lines per CPU-second")
         rate = pybtex_rate(tmp / f"out{args.jobs[0]}" / "references.bib")
         print(f"yardstick: pybtex parses the produced BibTeX at {rate:,.0f} entries/s; "
               f"clean (jobs={runs[0]['jobs']}) / pybtex parse = {runs[0]['lines_per_s'] / rate:.2f}")

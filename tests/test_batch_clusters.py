@@ -11,8 +11,8 @@ from normform.model import Identifier, Name, Reference
 def _db(rows, ids=()):
     db = _connect(":memory:")
     for seq, (author, year, title) in enumerate(rows, start=1):
-        db.execute("INSERT INTO keys VALUES (?,?,?,?,?,?,?,?,?,?)",
-                   (seq, author, year, keys.title_key(title), keys.title_prefix(title), "", 0.5, 3, 0, 0))
+        db.execute("INSERT INTO keys VALUES (?,?,?,?,?,?,?,?,?,?,?,?)",
+                   (seq, author, year, keys.title_key(title), keys.title_prefix(title), "", 0.5, 3, 0, 0, 0, 0))
     db.executemany("INSERT INTO ids VALUES (?,?)", ids)
     return db
 
@@ -23,8 +23,9 @@ def test_typos_word_order_and_unknown_years_cluster():
               ("farrowdale", None, "On the Enumeration of Dyck Words."),      # "to appear"
               ("farrowdale", 1990, "On the enumeration of Dyck words"),       # another year: another work
               ("ormsby", 1987, "Tilings of a strip")])
-    # the undated line is compatible with both dated ones, so it links them (single linkage)
-    assert clusters.find(db) == [[1, 2, 3, 4]]
+    # the undated line joins the best-matching dated group (exact title: 1987 and 1990 tie,
+    # the earlier record wins) and does not link the 1990 paper to the 1987 one
+    assert clusters.find(db) == [[1, 2, 3]]
     # without it, two years means two works
     db2 = _db([("farrowdale", 1987, "On the enumeration of Dyck words"),
                ("farrowdale", 1990, "On the enumeration of Dyck words")])
@@ -58,7 +59,8 @@ def test_big_block_is_windowed_and_still_finds_neighbours():
 def test_canonical_prefers_confidence_then_fields_then_first():
     db = _connect(":memory:")
     for seq, conf, nf in [(1, 0.5, 3), (2, 0.9, 2), (3, 0.9, 4), (4, 0.9, 4)]:
-        db.execute("INSERT INTO keys VALUES (?,?,?,?,?,?,?,?,?,?)", (seq, "a", 1, "t", "t", "", conf, nf, 0, 0))
+        db.execute("INSERT INTO keys VALUES (?,?,?,?,?,?,?,?,?,?,?,?)",
+                   (seq, "a", 1, "t", "t", "", conf, nf, 0, 0, 0, 0))
     assert clusters.canonical(db, [1, 2, 3, 4]) == 3
 
 
@@ -69,3 +71,50 @@ def test_identifier_keys_ignore_invalid_and_arxiv_versions():
     assert keys.identifier_keys(ref) == ["arxiv:1203.4567", "doi:10.1/x"]
     assert keys.author_key(ref) == "waerden"
     assert keys.fold("Göttingen – Erdős") == "gottingen erdos"
+
+
+def test_an_undated_line_never_bridges_two_years():
+    # the undated line is the only link between the 1987 and the 1990 paper
+    db = _db([("penhallow", 1987, "Asymptotics of plane partitions"),
+              ("penhallow", None, "Asymptotics of plane partitions"),
+              ("penhallow", 1990, "Asymptotics of plane partitions"),
+              ("penhallow", None, "Asymptotics of plane partitons"),      # typo, also undated
+              ("penhallow", 1990, "Asymptotics of plane partitions")])
+    # undated 2 and 4 are one group; it joins one dated group (the tie goes to the
+    # earlier record), never both
+    assert clusters.find(db) == [[1, 2, 4], [3, 5]]
+
+
+def test_undated_line_prefers_the_closer_title():
+    db = _db([("wendlow", 1999, "Refined counting of Motzkin paths"),
+              ("wendlow", 2004, "Refined counting of Motzkin path"),
+              ("wendlow", None, "Refined counting of Motzkin path")])
+    assert clusters.find(db) == [[2, 3]]
+
+
+def test_shared_identifier_overrides_years_but_blocks_further_undated_merges():
+    db = _db([("ashgrove", 1970, "Necklaces and bracelets"),
+              ("ashgrove", 1971, "Necklaces and bracelets"),
+              ("ashgrove", None, "Necklaces and bracelets")],
+             ids=[(1, "mr:123"), (2, "mr:123")])
+    # 1 and 2 share an MR number (exact evidence, typo in a year); the group now has two
+    # known years, so the undated line is not added on title evidence alone
+    assert clusters.find(db) == [[1, 2]]
+
+
+def test_forest_guard():
+    from array import array
+
+    forest = clusters.Forest(array("i", [clusters._NO_YEAR, 1980, clusters._NO_YEAR, 1981]))
+    assert forest.union(1, 2)
+    assert not forest.union(2, 3)           # would mix 1980 and 1981
+    assert forest.union(2, 3, guarded=False)
+    assert forest.find(3) == forest.find(1) == 1
+
+
+def test_windowed_block_of_identical_titles_stays_linear():
+    # many records with one title collapse into one cell per year before any comparison
+    rows = [("smith", 1990 + i % 3, "Tables of combinatorial numbers") for i in range(3000)]
+    assert clusters.find(db := _db(rows)) == [list(range(1, 3001, 3)), list(range(2, 3001, 3)),
+                                             list(range(3, 3001, 3))]
+    db.close()

@@ -179,3 +179,38 @@ def test_progress_bar_on_a_terminal(tmp_path):
     screen = b"".join(chunks).decode("utf-8", "replace")
     assert proc.returncode == 0
     assert "300/300" in screen and "lines/s" in screen     # tqdm's bar: count and rate
+
+
+def test_chunk_totals_merge_like_record_totals():
+    from normform.batch import stats
+
+    results = [{"what": "ref", "stat": {"kind": k, "fields": f, "confidence": c, "ids": i,
+                                        "invalid_utf8": u, "error": e, "review": r}}
+               for k, f, c, i, u, e, r in [("article", ["title", "year"], 0.95, [["doi", True]], False, False, False),
+                                           ("book", ["title"], None, [], True, False, True),
+                                           ("article", [], 0.1, [["mr", False]], False, True, True)]]
+    results.append({"what": "formula", "ok": False})
+    one = stats.empty()
+    for result in results:
+        stats.add(one, result)
+    merged = stats.empty()
+    for part in (results[:2], results[2:]):
+        chunk = stats.empty()
+        for result in part:
+            stats.add(chunk, result)
+        stats.merge(merged, chunk)
+    assert merged == one and one["records"] == 3 and one["formulas_failed"] == 1
+
+
+def test_resume_refuses_a_checkpoint_of_another_format_version(tmp_path):
+    from normform.batch.store import VERSION, ResumeError, Store
+
+    identity = {"inputs": [], "settings": {}, "similarity": 90.0}
+    store, resumed = Store.open(tmp_path, identity, resume=False)
+    assert not resumed
+    store.state["version"] = VERSION - 1          # as an older normform would have written it
+    store.set_phase("running")
+    store.close_parts()
+    store.db.close()
+    with pytest.raises(ResumeError, match="another normform version"):
+        Store.open(tmp_path, identity, resume=True)

@@ -51,6 +51,20 @@ def test_nothing_lost(run):
     assert len(bad) == sum(1 for line, _ in data if _not_utf8(line))
 
 
+def test_lines_joined_on_workers_are_plain_json_encodings(run):
+    # record, review and cluster-member lines are joined from pre-encoded pieces; each must be
+    # byte-for-byte what json.dumps(sort_keys=True, compact separators) gives for its content
+    from normform.batch.process import dumps
+
+    _, out, _ = run
+    for name in ("records.jsonl", "needs-review.jsonl", "clusters.jsonl"):
+        lines = (out / name).read_text("utf-8").splitlines()
+        assert lines, name
+        assert all(dumps(json.loads(line)) == line for line in lines), name
+    member = json.loads((out / "clusters.jsonl").read_text("utf-8").splitlines()[0])["members"][0]
+    assert sorted(member) == ["confidence", "entry", "file", "house", "id", "line", "seq", "text"]
+
+
 def _not_utf8(raw: bytes) -> bool:
     try:
         raw.decode("utf-8")
@@ -123,3 +137,24 @@ def test_against_a_curated_library_enriches_records(tmp_path):
     assert first["library"]["matched"] and first["library"]["record"] == "farrowdale1987dyck"
     assert first["csl"].get("DOI") == "10.1016/qsem.1987.45123"     # supplied by the library
     assert not second["library"]["matched"] and "DOI" not in second["csl"]
+
+
+def test_emptying_caches_to_bound_memory_changes_no_output(monkeypatch):
+    # workers empty normform's lru caches when over CACHE_BUDGET_MB; memoisation only, so the
+    # bytes of every output must be the same as with warm caches
+    from make_demo_corpus import build
+
+    from normform.batch import clusters, process
+    from normform.batch.inputs import Item
+
+    texts = [line.decode("utf-8", "replace") for line in build(120) if line.strip()]
+    items = [Item(what="ref", text=t, file="x.txt", line=i) for i, t in enumerate(texts, 1)]
+    settings = process.Settings()
+    warm = [process.process_chunk(items[i:i + 30], i + 1, settings) for i in range(0, len(items), 30)]
+    clusters._numbers("a 2 b")
+    assert process.bound_caches(budget_mb=1e9) == 0 and clusters._numbers.cache_info().currsize > 0
+    monkeypatch.setattr(process, "CACHE_BUDGET_MB", 0)     # empty them after every chunk
+    cold = [process.process_chunk(items[i:i + 30], i + 1, settings) for i in range(0, len(items), 30)]
+    assert clusters._numbers.cache_info().currsize == 0
+    assert [c["blobs"] for c in cold] == [w["blobs"] for w in warm]
+    assert [c["keys"] for c in cold] == [w["keys"] for w in warm]

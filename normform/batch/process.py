@@ -10,6 +10,8 @@ pickle cheaply.
 from __future__ import annotations
 
 import json
+import os
+import sys
 from dataclasses import dataclass, replace
 
 from normform.batch import keys, rowhtml
@@ -35,6 +37,16 @@ class Settings:
 def dumps(obj) -> str:
     """The one JSON spelling used in every output file (stable bytes)."""
     return json.dumps(obj, ensure_ascii=False, sort_keys=True, separators=(",", ":"))
+
+
+_REVIEW_KEYS = ("confidence", "csl", "id", "origin", "reasons", "seq", "text")
+# one member of a duplicate cluster in clusters.jsonl
+_MEMBER_KEYS = ("confidence", "entry", "file", "house", "id", "line", "seq", "text")
+
+
+def _joined(pieces: dict[str, str], names) -> str:
+    """``dumps`` of a dict whose values are already serialised (keys are plain ASCII)."""
+    return "{" + ",".join(f'"{k}":{pieces[k]}' for k in sorted(names)) + "}"
 
 
 def _present(ref) -> list[str]:
@@ -144,30 +156,32 @@ def process_ref(item: Item, seq: int, settings: Settings, kit) -> dict:
 
     flags = {k: v for k, v in item.flags}
     needs_review = bool(reasons)
-    record = {
-        "id": rid, "seq": seq,
-        "origin": {"file": item.file, "line": item.line, "entry": item.entry, "index": item.index},
-        "text": item.text, "confidence": confidence, "kind": ref.kind.value,
-        "csl": csl, "house": house, "needs_review": needs_review, "reasons": reasons,
-    }
+    origin_obj = {"file": item.file, "line": item.line, "entry": item.entry, "index": item.index}
+    # Each value is serialised once; the record, review and cluster-member
+    # lines are joined from the same pieces (same bytes as dumps() of each dict).
+    piece = {"id": dumps(rid), "seq": str(seq), "origin": dumps(origin_obj), "text": dumps(item.text),
+             "confidence": dumps(confidence), "kind": dumps(ref.kind.value), "csl": dumps(csl),
+             "house": dumps(house), "needs_review": dumps(needs_review), "reasons": dumps(reasons)}
     if flags:
-        record["flags"] = flags
+        piece["flags"] = dumps(flags)
     if matched is not None:
-        record["library"] = matched
-    line = dumps(record)
+        piece["library"] = dumps(matched)
+    line = _joined(piece, piece)
+    review = _joined(piece, _REVIEW_KEYS) if needs_review else None
+    member = _joined({**piece, "file": dumps(item.file), "line": dumps(item.line),
+                      "entry": dumps(item.entry)}, _MEMBER_KEYS)
     # Lines the parser calls junk, and bare titles with no author, year or
     # identifier ("REFS CONT'D ON NEXT PAGE"), take no part in duplicate clustering.
     clusterable = ((confidence is None or confidence >= JUNK_CONFIDENCE)
                    and bool(ref.authors or ref.editors or ref.year or ref.identifiers))
+    present = _present(ref)
     out = {
-        "what": "ref", "record": line, "bib": bib,
-        "review": dumps({"id": rid, "seq": seq, "origin": record["origin"], "text": item.text,
-                         "confidence": confidence, "reasons": reasons, "csl": csl}) if needs_review else None,
+        "what": "ref", "record": line, "bib": bib, "review": review, "member": member,
         "key": [keys.author_key(ref) if clusterable else "", ref.year,
                 keys.title_key(ref.title) if clusterable else "",
                 keys.title_prefix(ref.title) if clusterable else "",
-                confidence if confidence is not None else 0.0, len(_present(ref))],
-        "stat": {"kind": ref.kind.value, "fields": _present(ref), "confidence": confidence,
+                confidence if confidence is not None else 0.0, len(present)],
+        "stat": {"kind": ref.kind.value, "fields": present, "confidence": confidence,
                  "ids": [[i.scheme, bool(i.valid)] for i in ref.identifiers],
                  "invalid_utf8": item.flag("invalid_utf8") is not None,
                  "error": any(r.startswith(("parser error", "CSL-JSON export", "BibTeX export")) for r in reasons),
@@ -193,15 +207,89 @@ def process_formula(item: Item, settings: Settings, kit) -> dict:
             "row": rowhtml.formula_row(item, mathml, ascii_form, error)}
 
 
-def process_chunk(items: list[Item], first_seq: int, settings: Settings) -> list[dict]:
-    """Results for ``items``; reference items are numbered from ``first_seq``."""
+def process_chunk(items: list[Item], first_seq: int, settings: Settings) -> dict:
+    """One chunk's outputs, rendered and packed on the worker.
+
+    Reference items are numbered from ``first_seq``.  The main process only
+    appends the byte blobs to the part files and stores the key rows, so
+    the result is a few large strings and small tuples (cheap to pickle)
+    and the main process does no per-record rendering.
+    """
+    from normform.batch import stats
+
     kit = load(settings.toolkit)
-    out = []
+    parts: dict[str, list[str]] = {name: [] for name in PART_NAMES}
+    key_rows: list[tuple] = []
+    id_rows: list[tuple] = []
+    totals = stats.empty()
+    rec_off = mem_off = 0
     seq = first_seq
     for item in items:
-        if item.what == "ref":
-            out.append(process_ref(item, seq, settings, kit))
-            seq += 1
-        else:
-            out.append(process_formula(item, settings, kit))
-    return out
+        if item.what != "ref":
+            result = process_formula(item, settings, kit)
+            stats.add(totals, result)
+            parts["formulas"].append(result["row"])
+            continue
+        result = process_ref(item, seq, settings, kit)
+        stats.add(totals, result)
+        record = result["record"] + "\n"
+        member = result["member"] + "\n"
+        rec_len, mem_len = _utf8_len(record), _utf8_len(member)
+        parts["records"].append(record)
+        parts["members"].append(member)
+        parts["bib"].append(result["bib"] + "\n")
+        if result["review"] is not None:
+            parts["review"].append(result["review"] + "\n")
+        if result["row"] is not None:
+            parts["rows"].append(result["row"])
+        author, year, title, prefix, conf, nfields = result["key"]
+        key_rows.append((seq, author, year, title, prefix, result["textkey"], conf, nfields,
+                         rec_off, rec_len, mem_off, mem_len))
+        id_rows.extend((seq, ident) for ident in result["idkeys"])
+        rec_off += rec_len
+        mem_off += mem_len
+        seq += 1
+    bound_caches()
+    return {"records": seq - first_seq,
+            "blobs": {name: "".join(texts).encode("utf-8") for name, texts in parts.items()},
+            "keys": key_rows, "ids": id_rows, "totals": totals}
+
+
+# Memory budget of a process running chunks.  The parser and exporters keep
+# lru caches of up to 10^5..2x10^5 entries each; over a million distinct lines
+# they fill to hundreds of MB per worker.  Past the budget a worker empties
+# the normform caches (pure memoisation: results do not change, only warm-up
+# is repeated), so memory stays flat in the input size.
+CACHE_BUDGET_MB = 100
+
+
+def _resident_mb() -> float | None:
+    try:
+        with open("/proc/self/statm", "rb") as handle:
+            return int(handle.read().split()[1]) * os.sysconf("SC_PAGE_SIZE") / 2**20
+    except (OSError, ValueError, IndexError, AttributeError):   # not Linux
+        return None
+
+
+def bound_caches(budget_mb: float | None = None) -> int:
+    """Empty every ``functools.lru_cache`` in normform modules when over ``budget_mb``; returns how many."""
+    resident = _resident_mb()
+    if resident is None or resident <= (CACHE_BUDGET_MB if budget_mb is None else budget_mb):
+        return 0
+    cleared = 0
+    for name, module in list(sys.modules.items()):
+        if not (name == "normform" or name.startswith("normform.")) or module is None:
+            continue
+        for value in list(vars(module).values()):
+            if callable(getattr(value, "cache_clear", None)) and hasattr(value, "cache_info"):
+                value.cache_clear()
+                cleared += 1
+    return cleared
+
+
+# part files a chunk appends to (see normform.batch.store)
+PART_NAMES = ("records", "bib", "review", "rows", "formulas", "members")
+
+
+def _utf8_len(text: str) -> int:
+    return len(text) if text.isascii() else len(text.encode("utf-8"))

@@ -153,8 +153,9 @@ def write(path: Path, summary: dict, *, rows: Path, formulas: Path, clusters: Pa
                   '<span class="keys">keys: <kbd>/</kbd> search, <kbd>j</kbd>/<kbd>k</kbd> next/previous row'
                   '</span></form>')
         if shown < summary["records"]:
-            out.write(f'<p class="note">Showing the first {shown:,} of {summary["records"]:,} records; '
-                      'every record is in records.jsonl and needs-review.jsonl.</p>')
+            out.write(f'<p class="note">Showing the first {shown:,} of {summary["records"]:,} records '
+                      '(a sample, to keep the page light); every record is in records.jsonl and all '
+                      f'{summary["needs_review"]:,} records that need review are in needs-review.jsonl.</p>')
         out.write('<table id="table"><thead><tr><th scope="col">origin</th><th scope="col">as typed</th>'
                   '<th scope="col">cleaned (house style)</th><th scope="col">kind</th>'
                   '<th scope="col">confidence</th><th scope="col">why review</th></tr></thead><tbody>')

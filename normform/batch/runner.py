@@ -157,7 +157,8 @@ def clean(paths_in: list[str], outdir: str | Path, *, threshold: float = 0.9, jo
         _restore(previous)
 
     seconds = earlier + time.monotonic() - started
-    result = _finish(store, paths, read, counted["refs"], totals, settings, similarity, seconds, err, quiet)
+    result = _finish(store, paths, read, counted["refs"], totals, settings, similarity, seconds, err, quiet,
+                     threads=jobs or engines.default_jobs())
     result.resumed = resumed
     return result
 
@@ -185,53 +186,47 @@ def _restore(previous) -> None:
 
 
 def _finish(store: Store, paths: list[Path], read: inputs.ReadStats, refs: int, totals: dict,
-            settings: Settings, similarity: float, seconds: float, err: TextIO, quiet: bool) -> CleanResult:
+            settings: Settings, similarity: float, seconds: float, err: TextIO, quiet: bool,
+            threads: int = 1) -> CleanResult:
     from normform.batch import report
 
     finish_started = time.monotonic()
+    finish_cpu = time.process_time()
     store.close_parts()
     work, outdir = store.work, store.outdir
     db = store.db
     db.execute("CREATE INDEX IF NOT EXISTS keys_a ON keys(author, title, seq)")
-    db.execute("CREATE INDEX IF NOT EXISTS keys_p ON keys(prefix, title, seq)")
+    db.execute("CREATE INDEX IF NOT EXISTS keys_p ON keys(prefix, year, title, seq)")
     db.execute("CREATE INDEX IF NOT EXISTS ids_i ON ids(ident, seq)")
     db.execute("CREATE INDEX IF NOT EXISTS keys_t ON keys(textkey, seq)")
-    groups = clustering.find(db, similarity)
-
-    def member(seq: int) -> dict:
-        offset, length = db.execute("SELECT offset, length FROM keys WHERE seq=?", (seq,)).fetchone()
-        return store.record_at(offset, length)
+    forest = clustering.link(db, similarity, threads=threads)
 
     clustered = 0
+    number = 0
     cluster_tmp = work / "clusters.part"
     # A small digest of each cluster for the report (the full lines can be huge).
     digest_tmp = work / "clusters-digest.part"
-    with open(cluster_tmp, "w", encoding="utf-8") as handle, \
-            open(digest_tmp, "w", encoding="utf-8") as digest:
-        for number, group in enumerate(groups, start=1):
-            clustered += len(group)
-            best = member(clustering.canonical(db, group))
+    with open(cluster_tmp, "wb") as handle, open(digest_tmp, "w", encoding="utf-8") as digest:
+        for number, members in enumerate(clustering.groups(db, forest), start=1):
+            clustered += len(members)
+            _, _, _, offset, length, _, _ = clustering.best(members)
+            best = store.record_at(offset, length)
             canon = {k: best[k] for k in ("id", "seq", "origin", "text", "house", "csl")}
-            # written member by member (keys in dumps' sorted order): a huge cluster stays out of memory
-            handle.write(f'{{"canonical":{dumps(canon)},"cluster":{number},"members":[')
-            shown = []
-            for i, seq in enumerate(group):
-                rec = member(seq)
-                entry = {"id": rec["id"], "seq": seq, "file": rec["origin"]["file"],
-                         "line": rec["origin"]["line"], "entry": rec["origin"]["entry"],
-                         "text": rec["text"], "house": rec["house"], "confidence": rec["confidence"]}
-                handle.write(("," if i else "") + dumps(entry))
-                if i < report.MEMBER_LIMIT and number <= report.CLUSTER_LIMIT:
-                    shown.append(entry)
-            handle.write(f'],"size":{len(group)}}}\n')
-            digest.write(dumps({"cluster": number, "size": len(group),
-                                "canonical": {"seq": canon["seq"], "house": canon["house"]},
-                                "members": shown,
-                                "linked": [seq for seq in group if seq <= settings.report_rows]}) + "\n")
+            # the member lines were rendered by the workers; here they are only copied
+            lines = [store.read_at("members", moff, mlen).rstrip(b"\n") for *_, moff, mlen in members]
+            handle.write(f'{{"canonical":{dumps(canon)},"cluster":{number},"members":['.encode("utf-8"))
+            handle.write(b",".join(lines))
+            handle.write(f'],"size":{len(members)}}}\n'.encode("utf-8"))
+            shown = lines[:report.MEMBER_LIMIT] if number <= report.CLUSTER_LIMIT else []
+            linked = [m[0] for m in members if m[0] <= settings.report_rows]
+            digest.write(f'{{"canonical":{dumps({"seq": canon["seq"], "house": canon["house"]})},'
+                         f'"cluster":{number},"linked":{dumps(linked)},'
+                         f'"members":[{b",".join(shown).decode("utf-8")}],"size":{len(members)}}}\n')
+    del forest
 
     store.close_reader()
     lines_in = read.lines
-    summary = stats.summary(totals, lines_in=lines_in, blank=read.blank, clusters=len(groups),
+    summary = stats.summary(totals, lines_in=lines_in, blank=read.blank, clusters=number,
                             clustered=clustered, threshold=settings.threshold,
                             inputs=[str(p) for p in paths], seconds=seconds)
     summary["references_read"] = refs
@@ -246,7 +241,8 @@ def _finish(store: Store, paths: list[Path], read: inputs.ReadStats, refs: int, 
     digest_tmp.unlink()
     # timing last: clustering and the report are part of the run
     finish = time.monotonic() - finish_started
-    summary["run"] = stats.run_block(totals["records"], seconds + finish, finish)
+    summary["run"] = stats.run_block(totals["records"], seconds + finish, finish,
+                                     time.process_time() - finish_cpu)
     summary_text = json.dumps(summary, ensure_ascii=False, sort_keys=True, indent=2) + "\n"
 
     atomic_write(work / "summary.part", summary_text)

@@ -48,6 +48,18 @@ def add(totals: dict, result: dict) -> None:
             bad[scheme] = bad.get(scheme, 0) + 1
 
 
+def merge(totals: dict, part: dict) -> None:
+    """Add the totals of one chunk (built on the worker) to the running ``totals``."""
+    for name in ("records", "needs_review", "errors", "invalid_utf8", "no_confidence",
+                 "formulas", "formulas_failed"):
+        totals[name] += part[name]
+    for name in ("kinds", "fields", "identifiers", "invalid_identifiers"):
+        into = totals[name]
+        for key, count in part[name].items():
+            into[key] = into.get(key, 0) + count
+    totals["histogram"] = [a + b for a, b in zip(totals["histogram"], part["histogram"])]
+
+
 def summary(totals: dict, *, lines_in: int, blank: int, clusters: int, clustered: int,
             threshold: float, inputs: list[str], seconds: float) -> dict:
     n = totals["records"] or 1
@@ -71,6 +83,9 @@ def summary(totals: dict, *, lines_in: int, blank: int, clusters: int, clustered
     }
 
 
-def run_block(records: int, seconds: float, finish: float) -> dict:
-    return {"seconds": round(seconds, 3), "finish_seconds": round(finish, 3),
-            "lines_per_second": round(records / seconds, 1) if seconds > 0 else None}
+def run_block(records: int, seconds: float, finish: float, finish_cpu: float | None = None) -> dict:
+    block = {"seconds": round(seconds, 3), "finish_seconds": round(finish, 3),
+             "lines_per_second": round(records / seconds, 1) if seconds > 0 else None}
+    if finish_cpu is not None:   # CPU of the one-process clustering and report step
+        block["finish_cpu_seconds"] = round(finish_cpu, 3)
+    return block

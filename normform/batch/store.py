@@ -2,9 +2,10 @@
 
 Layout (inside ``OUTDIR/.normform-work/``)::
 
-    records.part  bib.part  review.part  rows.part  formulas.part
+    records.part  bib.part  review.part  rows.part  formulas.part  members.part
     state.sqlite  -- table ``state`` (one JSON checkpoint), table ``keys``
-                     (per-record blocking keys and the record's byte offset)
+                     (per-record blocking keys, the byte offsets of the record
+                     line and of its cluster-member line), table ``ids``
 
 A chunk is done when its part-file bytes are flushed *and* the sqlite
 transaction that stores its keys and the new checkpoint (part sizes, item
@@ -22,8 +23,8 @@ import sqlite3
 from pathlib import Path
 
 WORK = ".normform-work"
-PARTS = ("records", "bib", "review", "rows", "formulas")
-VERSION = 1
+PARTS = ("records", "bib", "review", "rows", "formulas", "members")
+VERSION = 2   # 2: chunks arrive packed; a "members" part (cluster member lines)
 
 
 class ResumeError(Exception):
@@ -58,6 +59,10 @@ class Store:
             row = db.execute("SELECT v FROM state WHERE k='checkpoint'").fetchone()
             if row is not None:
                 state = json.loads(row[0])
+                if state.get("version") != VERSION:
+                    db.close()
+                    raise ResumeError(f"{work} holds a checkpoint of another normform version; "
+                                      "run without --resume to start again")
                 if state.get("identity") != identity:
                     db.close()
                     raise ResumeError(
@@ -80,40 +85,30 @@ class Store:
         return self.work / f"{name}.part"
 
     # -- progress -----------------------------------------------------------
-    def commit_chunk(self, results: list[dict], items: int, totals: dict, seconds: float) -> None:
-        """Append one chunk's results and checkpoint them, in that order."""
+    def commit_chunk(self, chunk: dict, items: int, totals: dict, seconds: float) -> None:
+        """Append one chunk (packed by ``process_chunk``) and checkpoint it, in that order."""
         from normform.batch import stats
 
-        records, bib, review, rows, formulas = (self.files[n] for n in PARTS)
-        key_rows, id_rows = [], []
-        for result in results:
-            stats.add(totals, result)
-            if result["what"] == "formula":
-                formulas.write(result["row"].encode("utf-8"))
-                continue
-            data = (result["record"] + "\n").encode("utf-8")
-            offset = records.tell()
-            records.write(data)
-            bib.write((result["bib"] + "\n").encode("utf-8"))
-            if result["review"] is not None:
-                review.write((result["review"] + "\n").encode("utf-8"))
-            if result["row"] is not None:
-                rows.write(result["row"].encode("utf-8"))
-            author, year, title, prefix, conf, nfields = result["key"]
-            self.state["records_done"] += 1
-            seq = self.state["records_done"]
-            key_rows.append((seq, author, year, title, prefix,
-                             result.get("textkey", ""), conf, nfields, offset, len(data)))
-            id_rows.extend((seq, ident) for ident in result.get("idkeys", ()))
+        base_rec = self.files["records"].tell()
+        base_mem = self.files["members"].tell()
+        for name, blob in chunk["blobs"].items():
+            if blob:
+                self.files[name].write(blob)
+        key_rows = [(seq, author, year, title, prefix, textkey, conf, nfields,
+                     base_rec + roff, rlen, base_mem + moff, mlen)
+                    for seq, author, year, title, prefix, textkey, conf, nfields, roff, rlen, moff, mlen
+                    in chunk["keys"]]
+        stats.merge(totals, chunk["totals"])
         for handle in self.files.values():
             handle.flush()
+        self.state["records_done"] += chunk["records"]
         self.state["items_done"] += items
         self.state["sizes"] = {n: self.files[n].tell() for n in PARTS}
         self.state["totals"] = totals
         self.state["seconds"] = seconds
         with self.db:
-            self.db.executemany("INSERT INTO keys VALUES (?,?,?,?,?,?,?,?,?,?)", key_rows)
-            self.db.executemany("INSERT INTO ids VALUES (?,?)", id_rows)
+            self.db.executemany("INSERT INTO keys VALUES (?,?,?,?,?,?,?,?,?,?,?,?)", key_rows)
+            self.db.executemany("INSERT INTO ids VALUES (?,?)", chunk["ids"])
             self._save()
 
     def _save(self) -> None:
@@ -129,16 +124,22 @@ class Store:
             handle.close()
         self.files = {}
 
+    def read_at(self, name: str, offset: int, length: int) -> bytes:
+        """``length`` bytes of part ``name`` from ``offset`` (after ``close_parts``)."""
+        readers = self._reader if self._reader is not None else {}
+        self._reader = readers
+        if name not in readers:
+            readers[name] = open(self.part(name), "rb")
+        readers[name].seek(offset)
+        return readers[name].read(length)
+
     def record_at(self, offset: int, length: int) -> dict:
-        if self._reader is None:
-            self._reader = open(self.part("records"), "rb")
-        self._reader.seek(offset)
-        return json.loads(self._reader.read(length))
+        return json.loads(self.read_at("records", offset, length))
 
     def close_reader(self) -> None:
-        if self._reader is not None:
-            self._reader.close()
-            self._reader = None
+        for handle in (self._reader or {}).values():
+            handle.close()
+        self._reader = None
 
     def remove(self) -> None:
         self.close_reader()
@@ -156,7 +157,7 @@ def _connect(path: Path) -> sqlite3.Connection:
     db.execute("CREATE TABLE IF NOT EXISTS state (k TEXT PRIMARY KEY, v TEXT)")
     db.execute("CREATE TABLE IF NOT EXISTS keys (seq INTEGER PRIMARY KEY, author TEXT, year INTEGER, "
                "title TEXT, prefix TEXT, textkey TEXT, conf REAL, nfields INTEGER, "
-               "offset INTEGER, length INTEGER)")
+               "offset INTEGER, length INTEGER, moff INTEGER, mlen INTEGER)")
     db.execute("CREATE TABLE IF NOT EXISTS ids (seq INTEGER, ident TEXT)")
     return db
 
