@@ -437,3 +437,10 @@ def test_title_ends_at_its_closing_quote():
                                                 "College in", "title"), ("1988", "date")])
     assert ref.title == "The basic theory of walks"
     assert "lecture notes" in (ref.note or "")
+
+
+def test_series_read_into_the_publisher_is_split_off():
+    text = "A. Quill. Simplicial walks. Modern Quill Classics. Birkhäuser Verlag, Basel, 2009."
+    ref = _run(text, [("A. Quill", "authors"), ("Simplicial walks", "title"),
+                      ("Modern Quill Classics. Birkhäuser Verlag", "publisher"), ("Basel", "place"), ("2009", "date")])
+    assert ref.publisher == "Birkhäuser Verlag" and ref.series == "Modern Quill Classics"

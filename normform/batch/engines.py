@@ -54,6 +54,9 @@ def _worker_init() -> None:
     import signal
 
     signal.signal(signal.SIGINT, signal.SIG_IGN)
+    # fork copied the main process's SIGTERM handler (stop like Ctrl-C); in a
+    # worker that would only raise inside a task and leave it waiting for more
+    signal.signal(signal.SIGTERM, signal.SIG_DFL)
     try:
         import ctypes
 

@@ -20,7 +20,7 @@ from normform.batch.toolkit import DEFAULT, load
 
 # Fields whose presence summary.json and the report chart count.
 FIELDS = ("author", "title", "container", "year", "volume", "issue", "pages",
-          "publisher", "place", "edition", "identifier")
+          "publisher", "place", "edition", "report number", "version", "accessed", "identifier")
 
 
 JUNK_CONFIDENCE = 0.2
@@ -61,6 +61,9 @@ def _present(ref) -> list[str]:
         "publisher": bool(ref.publisher),
         "place": bool(ref.place),
         "edition": bool(ref.edition),
+        "report number": bool(ref.report_number),
+        "version": bool(ref.version),
+        "accessed": ref.accessed is not None,
         "identifier": bool(ref.identifiers),
     }
     return [name for name in FIELDS if have[name]]
