@@ -79,7 +79,7 @@ def _alive(pid: int) -> bool:
     return "\nState:\tZ" not in status
 
 
-@pytest.mark.parametrize("sig,jobs", [(signal.SIGKILL, 1), (signal.SIGINT, 2), (signal.SIGTERM, 2)])
+@pytest.mark.parametrize("sig,jobs", [(signal.SIGKILL, 1), (signal.SIGKILL, 2), (signal.SIGINT, 2), (signal.SIGTERM, 2)])
 def test_killed_run_resumes_to_identical_outputs(tmp_path, sig, jobs):
     n = 2000
     src = write_lines(tmp_path / "in.txt", n, extra=[b"", b"Bad \xff byte, still kept, 1999"])
