@@ -475,6 +475,8 @@ def make_record(r: random.Random, i: int) -> dict:
         rec["title"] = _unicode_math(rec["title"])
     if r.random() < 0.15:
         rec["issued"]["date-parts"][0].append(r.randint(1, 12))
+        if r.random() < 0.4:
+            rec["issued"]["date-parts"][0].append(r.randint(1, 28))
     if typ == "article-journal":
         full, abbr = _real_journal(r) if r.random() < 0.65 else _invented_journal(r)
         rec["container-title"] = abbr if r.random() < 0.55 else full
@@ -705,8 +707,8 @@ def align(text: str, rec: dict) -> list[tuple[int, int, str]] | None:
         parts = rec["issued"]["date-parts"][0]
         if len(parts) > 1:
             for j in range(max(0, yhits[0] - 3), min(len(toks), yhits[0] + 1)):
-                if (keys[j] in lx.MONTHS and lx.MONTHS[keys[j]] == parts[1] or keys[j] == str(parts[1])) \
-                        and taken[j] is None:
+                if (keys[j] in lx.MONTHS and lx.MONTHS[keys[j]] == parts[1] or keys[j] == str(parts[1])
+                        or len(parts) > 2 and keys[j] == str(parts[2])) and taken[j] is None:
                     taken[j] = "date"
     for key in ("volume", "issue", "collection-number", "edition"):
         if key not in rec:
@@ -949,10 +951,24 @@ def _pages(pg: str, r: random.Random) -> tuple[str, str]:
     return r.choice(("", "", "pp. ", "pp.", "p. ")), f"{a}{dash}{b}"
 
 
+def _full_date(parts: list[int], r: random.Random) -> str:
+    """A day-month-year date in one of the shapes people type."""
+    y, m, d = parts[:3]
+    month = _MONTHS[m - 1]
+    return r.choice((f"{d} {month} {y}", f"{month} {d}, {y}", f"{y}-{m:02d}-{d:02d}", f"{d} {month[:3]}. {y}"))
+
+
+def _junk_doi(r: random.Random) -> str:
+    """A "doi:" followed by something that is no DOI (a typo'd registrant)."""
+    reg = r.choice(("abc", "x", "12", "3", "j", "org"))
+    return r.choice(("doi:", "DOI: ", "doi ")) + f"10.{reg}/{r.choice(('xyz', 'qsem', 'j'))}{r.randint(1, 999)}"
+
+
 def render_template(rec: dict, r: random.Random) -> list[tuple[str, str]]:
     b = _B()
     typ = rec["type"]
-    year = str(rec["issued"]["date-parts"][0][0])
+    parts = rec["issued"]["date-parts"][0]
+    year = _full_date(parts, r) if len(parts) > 2 and r.random() < 0.6 else str(parts[0])
     people = rec.get("author") or []
     eds = rec.get("editor") or []
     yearpos = r.choices(("after_names", "after_vol", "end", "none_end"), weights=(25, 35, 35, 5))[0]
@@ -1092,6 +1108,8 @@ def render_template(rec: dict, r: random.Random) -> list[tuple[str, str]]:
     # identifiers
     if "DOI" in rec and r.random() < 0.7:
         b.o(r.choice((", ", ". ", " "))).f(r.choice(("doi:", "DOI: ", "https://doi.org/", "doi: ", "http://dx.doi.org/")) + rec["DOI"], "doi")
+    elif r.random() < 0.02:
+        b.o(r.choice((", ", ". "))).o(_junk_doi(r))
     if "ISBN" in rec and r.random() < 0.8:
         b.o(r.choice((", ", ". "))).f(r.choice(("ISBN ", "ISBN: ", "ISBN-13: ")) + rec["ISBN"], "isbn")
     if "arxiv" in rec and typ != "manuscript" and r.random() < 0.8:

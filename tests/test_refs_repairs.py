@@ -372,14 +372,14 @@ def test_unknown_publisher_read_as_a_journal_before_the_year():
 
 def test_proceedings_title_runs_on_to_the_volume_keyword():
     text = ("A. Quill. Formal walks. In B. Fenwick, editors, 10th International Conference on Walks, QW 2019, "
-            "September 9-12, 2019, Portland, OR, USA, volume 141 of LIPIcs, pages 12:1–12:17. Quill Press, 2019.")
+            "June 3-7, 2019, Ghent, Belgium, volume 14 of Lecture Notes in Ink, pages 12:1–12:17. Quill Press, 2019.")
     ref = _run(text, [("A. Quill", "authors"), ("Formal walks", "title"), ("B. Fenwick", "editors"),
                       ("10th International Conference on Walks", "container_title"), ("2019", "date"),
-                      ("2019", "date"), ("Portland", "place"), ("141", "series_number"), ("LIPIcs", "series"),
+                      ("2019", "date"), ("Ghent", "place"), ("14", "series_number"), ("Lecture Notes in Ink", "series"),
                       ("12", "issue"), ("1–12", "issue"), ("17", "pages"), ("Quill Press", "publisher"),
                       ("2019", "date")])
-    assert ref.container_title == ("10th International Conference on Walks, QW 2019, September 9-12, 2019, "
-                                   "Portland, OR, USA")
+    assert ref.container_title == ("10th International Conference on Walks, QW 2019, June 3-7, 2019, "
+                                   "Ghent, Belgium")
     assert ref.pages is not None and ref.pages.range_text() == "12:1-12:17"
 
 

@@ -470,8 +470,8 @@ def _publisher_score(words: list[str]) -> int:
 
 def _repair_author_tail(tokens: list[Token], labels: list[str], marg: list[float]) -> float:
     """A leading author list that ran on into a short title: after the list's
-    last name (``... and S. Gadbois, Definitions of Chaos``, ``Engler and
-    Prestel, Valued Fields``, ``G. Henniart, R. Herb, Automorphic
+    last name (``... and S. Vellum, Ink of Chaos``, ``Quill and
+    Penrake, Folded Nibs``, ``G. Fenwick, R. Marrow, Quill
     induction ...``) a comma starts something that is no name: not an
     initial, a suffix, a known given name or "et al." of an inverted list."""
     n = len(labels)
@@ -487,14 +487,14 @@ def _repair_author_tail(tokens: list[Token], labels: list[str], marg: list[float
     conj = [x for x in range(end + 1) if tokens[x].text in ("and", "&")]
     if conj and any(tokens[x].text == "," for x in range(conj[-1] - 1)) and not (
             tokens[0].kind == "initial" or tokens[0].text.lower() in lx.GIVEN_NAMES):
-        return 1.0   # "Cartan, Henri, and Eilenberg, Samuel": may be inverted
+        return 1.0   # "Quill, Ada, and Vellum, Sara": may be inverted
     if conj:
         cut = next((x for x in range(conj[-1] + 1, end) if tokens[x].text == ","), None)
         if cut is None:
             return 1.0
     else:
-        # given-first names ("G. Henniart, R. Herb, Automorphic ...", "P.
-        # Aluffi, Algebra: Chapter 0"): the last comma piece runs straight
+        # given-first names ("G. Fenwick, R. Marrow, Quill ...", "P.
+        # Tamsel, Inkwells: Chapter 0"): the last comma piece runs straight
         # into the rest of the line with no separator -- it is the title's start
         cut = next((x for x in range(end - 1, 0, -1) if tokens[x].text == ","), None)
         if cut is None or end - cut > 3 or end + 1 >= n or tokens[end + 1].text in ",.;([" \
@@ -523,9 +523,9 @@ def _repair_author_tail(tokens: list[Token], labels: list[str], marg: list[float
 
 def _repair_author_edges(tokens: list[Token], labels: list[str], marg: list[float]) -> float:
     """Author-run edges in the wrong place at a sentence period:
-    ``Stephan Brandt. Note: On ...`` (the run crossed the period after a
+    ``Stefan Quillby. Note: On ...`` (the run crossed the period after a
     family name and ends with no separator) gives the words after the period
-    back to the title; ``T. | Wedhorn. Adic spaces`` (a run of bare initials
+    back to the title; ``T. | Penrake. Nib spaces`` (a run of bare initials
     before a capitalised word and a period) takes the family name back."""
     n = len(labels)
     if n < 4 or labels[0] != "authors":
@@ -554,7 +554,7 @@ def _repair_author_edges(tokens: list[Token], labels: list[str], marg: list[floa
 
 def _repair_lone_container(tokens: list[Token], labels: list[str]) -> None:
     """A book record with one "container" run and no title, volume, issue or
-    pages ("E. Hairer, ..., Solving Ordinary Differential Equations I,
+    pages ("E. Vellum, ..., Solving Ordinary Ink Equations I,
     Springer-Verlag, 1991"): the run is the title.  With an article number
     but a series_number between volume and pages, that number is the issue."""
     if "container_title" not in labels:
@@ -723,9 +723,9 @@ _TAIL_LABELS = frozenset(("O", "publisher", "place", "note", "container_title", 
 
 def _repair_container_tail(tokens: list[Token], labels: list[str]) -> None:
     """A journal name cut short before its last abbreviated words or a
-    bracketed qualifier (``Comment. Math. | Univ. Carolin., vol. 42``,
+    bracketed qualifier (``Bull. Quill Soc. | Math. Ink., vol. 42``,
     ``Appl. Math. E | -Notes``, ``Arch. Math. | (Basel), 22``,
-    ``... Proving | (ITP 2022)``): in an article layout the capitalised
+    ``... Folding | (QSF 2022)``): in an article layout the capitalised
     words glued to the journal run, up to the comma or the volume, belong
     to it."""
     n = len(labels)
@@ -767,7 +767,7 @@ def _repair_container_tail(tokens: list[Token], labels: list[str]) -> None:
         return
     if any(t.kind == "num" and _YEAR_RE.fullmatch(t.text) for t in seg) and not any(
             t.text[:1].isupper() and t.kind == "word" and t.text.isupper() for t in seg):
-        return   # "(1990)": a date, not a qualifier -- unless with an acronym "(ITP 2022)"
+        return   # "(1990)": a date, not a qualifier -- unless with an acronym "(QSF 2022)"
     if any(t.text == "." for t in seg) and seg[-1].text == "." and labels[e + 1:x].count("O") == len(seg):
         return   # only periods and O words: a sentence, not a name
     while x - 1 > e and tokens[x - 1].text == ".":
@@ -840,8 +840,8 @@ def _repair_title_edges(tokens: list[Token], labels: list[str]) -> None:
                 labels[y] = "title"
             e = x - 1
         # a "journal" glued to the title with no separator or after a colon
-        # is its subtitle ("Pyknotic objects, i. | basic notions", "... I: |
-        # Faisceaux pervers, volume 100 of ...")
+        # is its subtitle ("Quill objects, i. | first notions", "... I: |
+        # Plumes pliées, volume 100 of ...")
         x = e + 1
         if x < n and labels[x] == "O" and tokens[x].text == ":":
             x += 1
@@ -864,10 +864,10 @@ def _repair_title_edges(tokens: list[Token], labels: list[str]) -> None:
 def _repair_authors_ate_title(tokens: list[Token], labels: list[str], marg: list[float]) -> float:
     """No title at all and a leading author run: the run ate it.  The name
     list ends where its shape breaks -- in an inverted list at the first
-    capitalised word right after a name's initials (``Hartshorne, R.
-    Algebraic Geometry``), in a given-first list at the first comma piece
+    capitalised word right after a name's initials (``Quillby, R.
+    Algebraic Inkwells``), in a given-first list at the first comma piece
     that starts with no initial or known given name, or has lower-case words
-    (``G. Laumon, L. Moret-Bailly, Champs algébriques``)."""
+    (``G. Fenwick, L. Marrow-Penn, Plumes algébriques``)."""
     n = len(labels)
     if n < 3 or labels[0] != "authors" or "title" in labels:
         return 1.0
@@ -922,8 +922,8 @@ _CONTAINER_STOP_LABELS = frozenset(("editors", "pages", "publisher", "series", "
 
 def _repair_proceedings(tokens: list[Token], labels: list[str]) -> None:
     """Proceedings titles are full of commas, dates and places (``In 10th
-    International Conference on X, ITP 2019, September 9-12, 2019, Portland,
-    OR, USA, volume 141 of LIPIcs, pages ...``); the labeler cuts them at the
+    Meeting on Quill Folding, QSF 2019, June 3-7, 2019, Ghent, Belgium,
+    volume 14 of Lecture Notes in Ink, pages ...``); the labeler cuts them at the
     first comma.  A container introduced by "In" (or naming a meeting) runs
     on to the first thing that ends such a title: a volume or pages
     keyword, the editors, "edited by", a series or the publisher."""
@@ -965,7 +965,7 @@ def _repair_proceedings(tokens: list[Token], labels: list[str]) -> None:
     while y > e and tokens[y].text in ",;:" or (y > e and tokens[y].text == "(" ):
         y -= 1
     j = stop + 2 if stop + 1 < n and tokens[stop + 1].text == "." else stop + 1
-    series_after = j + 1 < n and tokens[j + 1].text == "of"     # "volume 141 of LIPIcs"
+    series_after = j + 1 < n and tokens[j + 1].text == "of"     # "volume 14 of Lecture Notes in Ink"
     if tokens[stop].text in ("vol", "Vol", "volume", "Volume") and not series_after and y - 1 > e \
             and tokens[y - 1].text == "," \
             and tokens[y].kind == "word" and tokens[y].text[:1].isupper() and labels[y] == "O" and len(tokens[y].text) <= 6:
@@ -1083,9 +1083,9 @@ def _series_tail(title: str, runs: dict) -> str | None:
 
 
 def _name_shape_factor(names) -> float:
-    """Name lists of uneven shape are often mis-split ("Brandt, Stephan,
-    Note: ..." read as three names; "Barry Simon, Convexity" read as family
-    "Barry Simon"): some names with given names and some without, or a
+    """Name lists of uneven shape are often mis-split ("Quillby, Stefan,
+    Note: ..." read as three names; "Barry Vellum, Convexity" read as family
+    "Barry Vellum"): some names with given names and some without, or a
     two-word family name with no particle.  Doubt, do not repair."""
     persons = [n for n in names if not n.is_literal]
     if not persons:
@@ -1300,7 +1300,7 @@ def assemble(text: str, tokens: list[Token], labels: list[str], marg: list[float
             if len(last) <= 4 and last[:1].isupper() or (last.lower() + ".") in lx.JOURNAL_WORDS \
                     or (_ABBREVIATED.search(value) and last.isalpha() and last[:1].isupper()):
                 # the abbreviation's period was labeled as punctuation; in a
-                # name abbreviated elsewhere ("Comment. Math. Univ. Carolin.")
+                # name abbreviated elsewhere ("Bull. Quill Soc. Math. Ink.")
                 # the last word is abbreviated too -- keep the period as typed
                 value += "."
         if field == "publisher" and ". " in value and "series" not in runs:

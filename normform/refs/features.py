@@ -349,7 +349,7 @@ def _after_inverted_name(tokens: list[Token], i: int) -> bool:
     """Is token ``i`` a capitalised word right after "Family, I. J." (an
     inverted name whose initials end with no separator)?  In an inverted
     list the next name would follow ",", ";", "&" or "and", so such a word
-    starts the title ("Engel, K. Sperner Theory.").  "J. Smith, K. Sperner"
+    starts the title ("Fenwick, K. Nib Theory.").  "J. Smith, K. Sperner"
     does not count: there the word before the comma follows an initial."""
     tok = tokens[i]
     if tok.kind != "word" or not tok.text[:1].isupper():

@@ -74,7 +74,7 @@ def _ends_initial(piece: str) -> bool:
 @lru_cache(maxsize=100_000)
 def split_names(text: str) -> tuple[tuple[Name, ...], bool]:
     """Names in ``text`` and whether the list ended with *et al.*"""
-    text = _GLUED_INITIAL.sub(r"\1 ", " ".join(text.split()))   # "V.Salikhov" -> "V. Salikhov"
+    text = _GLUED_INITIAL.sub(r"\1 ", " ".join(text.split()))   # "V.Quillby" -> "V. Quillby"
     etal = False
     m = _ETAL.search(text)
     if m:
@@ -116,13 +116,13 @@ def split_names(text: str) -> tuple[tuple[Name, ...], bool]:
     if not inverted and len(chunks) % 2 == 0 and groups[-1].count(",") == 1 and \
             all(_core_words(c) <= 3 and c[:1].isupper() and not c.endswith(".") for c in chunks[1::2]) and \
             (len(groups) >= 2 or (len(chunks) == 2 and len(chunks[1].split()) == 1
-                                  # "P. Aluffi, Algebra", "Ehrhard Behrends, M-structure": a
-                                  # given-first name and a stray word, not "Bojanić, Ranko"
+                                  # "P. Tamsel, Inkwells", "Ehrhard Vellum, M-structure": a
+                                  # given-first name and a stray word, not "Penković, Ranko"
                                   and _core_words(chunks[0]) == 1 and not _ends_initial(chunks[0].split()[0]))):
-        # "Izhakian, Zur, Knebusch, Manfred, and Rowen, Louis"; "Bojanić, Ranko"
+        # "Quill, Zur, Fenwick, Manfred, and Marrow, Louis"; "Penković, Ranko"
         inverted = True
     if not inverted and len(chunks) >= 2 and len(groups) >= 2 and all(g.count(",") == 1 for g in groups):
-        # "Scholze, Peter and Weinstein, Jared": one comma inside every group
+        # "Quillby, Peter and Vellum, Jared": one comma inside every group
         inverted = all(len(g.split(",")[0].split()) <= 3 for g in groups)
     i = 0
     while i < len(chunks):
@@ -155,7 +155,7 @@ def _dotted_suffix(n: Name) -> Name:
 
 
 def _looks_given(chunk: str, family_chunk: str) -> bool:
-    # "Scholze, Peter": one or two capitalised words, no particles
+    # "Quillby, Peter": one or two capitalised words, no particles
     words = chunk.split()
     return 1 <= len(words) <= 3 and all(w[:1].isupper() for w in words) and _core_words(family_chunk) <= 3
 
@@ -186,8 +186,8 @@ def parse_one(text: str) -> Name:
     if len(words) == 1:
         return Name(family=words[0], suffix=suffix)
     # "Family A B" / "Family A.B.": initials after a long word; also with a
-    # particle before the family ("de Moura L", "van der Hoeven J") and
-    # non-ASCII capitals ("Djoković DŽ")
+    # particle before the family ("de Plume L", "van der Marrow J") and
+    # non-ASCII capitals ("Penković DŽ")
     lead = 0
     while lead < len(words) - 2 and words[lead] in lx.PARTICLES:
         lead += 1

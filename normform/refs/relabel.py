@@ -105,10 +105,31 @@ def repair(text: str, tokens: list[Token], labels: list[str], marg: list[float])
     if "(" in text and not ("container_title" in labels and "volume" in labels):
         # (with a journal and a volume found, the usual right case, nothing to do)
         _journal_volume_year(text, tokens, st(), labels, marg)
+    if labels[0] == "O":
+        _unlabeled_head(tokens, labels, marg)
     if labels[0] == "authors":
         _vancouver_initials(tokens, labels)
     if "doi" in text or "DOI" in text or "Doi" in text:
         _junk_after_doi(text, tokens, st(), labels)
+
+
+def _unlabeled_head(tokens, labels, marg) -> None:
+    """Capitalised words at the very start that the labeler left to no field,
+    right before the title (``QSEM editors, The Quill Tables, ...``): in
+    every common layout the line opens with its authors (a corporate name
+    here), so they are kept as authors, with a lowered confidence, rather
+    than lost."""
+    k = 0
+    while k < len(tokens) and labels[k] == "O":
+        k += 1
+    if k == 0 or k >= len(tokens) or labels[k] != "title":
+        return
+    words = [i for i in range(k) if tokens[i].kind in ("word", "initial")]
+    if not words or not tokens[words[0]].text[:1].isupper() or words[0] > 1:
+        return
+    for i in range(words[0], words[-1] + 1):
+        labels[i] = "authors"
+        marg[i] = min(marg[i], 0.7)
 
 
 def _access_and_version(text, tokens, starts, labels, marg, access: bool = True, version: bool = True) -> None:
