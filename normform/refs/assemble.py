@@ -165,6 +165,15 @@ def _run_end(labels: list[str], i: int) -> int:
     return i + len(list(next(groupby(islice(labels, i, None)))[1])) - 1
 
 
+def _first_run(labels: list[str], label: str) -> tuple[int, int]:
+    """First and last index of the first run of ``label``; (-1, -1) if none."""
+    try:
+        i = labels.index(label)
+    except ValueError:
+        return -1, -1
+    return i, _run_end(labels, i)
+
+
 def _positions(tokens: list[Token], wanted: frozenset[str], lo: int, hi: int) -> list[int]:
     """Indices in [lo, hi) of the tokens whose text is in ``wanted``, in
     order (the scan runs in C; keywords are rare)."""
@@ -729,12 +738,9 @@ def _repair_container_tail(tokens: list[Token], labels: list[str]) -> None:
     words glued to the journal run, up to the comma or the volume, belong
     to it."""
     n = len(labels)
-    try:
-        first = labels.index("container_title")
-    except ValueError:
+    first, e = _first_run(labels, "container_title")
+    if first < 0:
         return
-    e = first
-    e = _run_end(labels, e)
     if not any(lab in ("volume", "pages") for lab in labels[e + 1:]):
         return
     x = e + 1
@@ -928,12 +934,9 @@ def _repair_proceedings(tokens: list[Token], labels: list[str]) -> None:
     on to the first thing that ends such a title: a volume or pages
     keyword, the editors, "edited by", a series or the publisher."""
     n = len(labels)
-    try:
-        s0 = labels.index("container_title")
-    except ValueError:
+    s0, e = _first_run(labels, "container_title")
+    if s0 < 0:
         return
-    e = s0
-    e = _run_end(labels, e)
     intro = s0 > 0 and (tokens[s0 - 1].text in ("In", "in") or tokens[s0 - 1].text == ":" and s0 > 1
                         and tokens[s0 - 2].text in ("In", "in") or labels[s0 - 1] in ("O",) and s0 > 2
                         and tokens[s0 - 2].text in ("editors", "eds", "Eds"))
