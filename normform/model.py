@@ -9,9 +9,12 @@ lists or dicts) to keep instances hashable.
 from __future__ import annotations
 
 import dataclasses
+import re
 from dataclasses import dataclass
 from enum import Enum
 from typing import Iterable
+
+_ISO_DATE = re.compile(r"(\d{4})(?:-(\d{2}))?(?:-(\d{2}))?")
 
 
 class Kind(str, Enum):
@@ -86,6 +89,17 @@ class Date:
     season: str | None = None        # "Spring", "Winter", ...
     circa: bool = False
     literal: str | None = None       # "to appear", "in press", "n.d."
+
+    @classmethod
+    def from_iso(cls, text: str | None) -> "Date | None":
+        """An ISO 8601 calendar date ``YYYY[-MM[-DD]]``; other text is kept as a literal date."""
+        if not text or not text.strip():
+            return None
+        m = _ISO_DATE.fullmatch(text.strip())
+        if not m:
+            return cls(literal=text)
+        return cls(year=int(m.group(1)), month=int(m.group(2)) if m.group(2) else None,
+                   day=int(m.group(3)) if m.group(3) else None)
 
 
 @dataclass(frozen=True, slots=True)

@@ -118,12 +118,7 @@ def reference_from_table(table: dict):
                                           "issue", "publisher", "place", "edition", "genre", "note",
                                           "report_number", "version")
                    if isinstance(table.get(k), str)}
-    accessed = None
-    if isinstance(table.get("accessed"), str):
-        parts = [int(p) for p in re.findall(r"\d+", table["accessed"])[:3]]
-        if parts:
-            accessed = Date(year=parts[0], month=parts[1] if len(parts) > 1 else None,
-                            day=parts[2] if len(parts) > 2 else None)
+    accessed = Date.from_iso(table["accessed"]) if isinstance(table.get("accessed"), str) else None
     return Reference(kind=kind, authors=names("authors"), editors=names("editors"), pages=pages, accessed=accessed,
                      date=Date(year=year) if isinstance(year, int) else None, identifiers=idents,
                      provenance=Provenance(confidence=1.0), **text_fields)

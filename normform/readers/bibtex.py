@@ -285,17 +285,6 @@ def _date(values: dict[str, str], extra: list[tuple[str, str]]) -> Date | None:
     return Date(year=year, month=month, day=day, season=season, circa=circa, literal=literal)
 
 
-def _accessed(text: str | None) -> Date | None:
-    """biblatex ``urldate``: ISO ``YYYY[-MM[-DD]]``; other text is kept as a literal date."""
-    if not text:
-        return None
-    m = re.fullmatch(r"(\d{4})(?:-(\d{2}))?(?:-(\d{2}))?", text.strip())
-    if not m:
-        return Date(literal=text)
-    return Date(year=int(m.group(1)), month=int(m.group(2)) if m.group(2) else None,
-                day=int(m.group(3)) if m.group(3) else None)
-
-
 def _idents(values: dict[str, str]) -> list[Identifier]:
     out: list[Identifier] = []
 
@@ -391,7 +380,7 @@ def to_reference(entry_type: str, key: str, fields: dict[str, str]) -> Reference
         base = parse_pages(pages_text) if pages_text else Pages()
         pages = Pages(first=base.first, last=base.last, article=article, count=count)
     date = _date(values, extra)
-    accessed = _accessed(_text(values, "urldate"))
+    accessed = Date.from_iso(_text(values, "urldate"))   # biblatex urldate
     identifiers = _idents(values)
     provenance = _provenance(values)
     ref = Reference(
