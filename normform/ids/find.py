@@ -123,9 +123,10 @@ def _from_url(url: str) -> tuple[str, str, str | None]:
 # patterns whose gate is shut is much cheaper than running them.  With re.I a
 # few non-ASCII letters (U+0130, U+0131, U+017F, U+212A) match ASCII ones, so
 # lines holding them open every literal gate.
+_BARE_NEW_ID = re.compile(r"\d{4}\.\d{4}")   # both bare new-style arXiv patterns need it
 _ANCHORS: tuple[tuple[str, ...] | re.Pattern[str], ...] = (
     ("://", "www."), re.compile(r"10\.\d{4}"), ("arxiv",), re.compile(r"/\d{7}"),
-    re.compile(r"\d{4}\.\d{4}"), re.compile(r"\d{4}\.\d{4}"), ("corr",), ("mr",), ("zbl",), ("jfm",),
+    _BARE_NEW_ID, _BARE_NEW_ID, ("corr",), ("mr",), ("zbl",), ("jfm",),
     ("issn",), ("hdl",),
 )
 assert len(_ANCHORS) == len(_PATTERNS)
@@ -141,8 +142,12 @@ def _open(gate: tuple[str, ...] | re.Pattern[str], text: str, low: str | None) -
 def find_all(text: str) -> list[tuple[Identifier, Span]]:
     found: list[tuple[int, int, int, Identifier]] = []
     low = None if _FOLDS_TO_ASCII.search(text) else text.lower()
+    opened: dict = {}   # a gate shared by two patterns is checked once
     for (scheme, pattern, group, detail_group), gate in zip(_PATTERNS, _ANCHORS):
-        if not _open(gate, text, low):
+        ok = opened.get(gate)
+        if ok is None:
+            ok = opened[gate] = _open(gate, text, low)
+        if not ok:
             continue
         for m in pattern.finditer(text):
             start, end = m.start(), m.end()
