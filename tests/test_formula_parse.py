@@ -175,6 +175,27 @@ def test_import_is_lazy():
     assert out.split() == ["False", "False"]
 
 
+def _ours_and_lark(texts, error_key):
+    """Each text's tree (or ``error_key(FormulaError)``) from our table driver and from lark's own."""
+    from normform.formula import parser as P
+
+    driver = P._get_parser()
+
+    def outcome(text):
+        try:
+            return P.parse_statement(text)
+        except FormulaError as exc:
+            return error_key(exc)
+
+    try:
+        ours = [outcome(t) for t in texts]
+        P._parser = driver.lark
+        theirs = [outcome(t) for t in texts]
+    finally:
+        P._parser = driver
+    return ours, theirs
+
+
 def test_table_driver_gives_the_same_trees_as_lark():
     # parser.py drives lark's own LALR tables itself for speed; lark's driver must agree.
     import random
@@ -189,18 +210,7 @@ def test_table_driver_gives_the_same_trees_as_lark():
     texts = [c["text"] for c in VALID + MALFORMED]
     texts += ["".join(rng.choice(pieces) for _ in range(rng.randint(1, 9))) for _ in range(1500)]
 
-    def outcome(text):
-        try:
-            return P.parse_statement(text)
-        except FormulaError as exc:
-            return ("error", exc.line)
-
-    try:
-        ours = [outcome(t) for t in texts]
-        P._parser = driver.lark
-        theirs = [outcome(t) for t in texts]
-    finally:
-        P._parser = driver
+    ours, theirs = _ours_and_lark(texts, lambda exc: ("error", exc.line))
     assert ours == theirs
 
 
@@ -211,27 +221,13 @@ def test_table_driver_lexer_agrees_with_lark_on_character_soup():
     # drivers must give the same tree, or an error at the same line and column.
     import random
 
-    from normform.formula import parser as P
-
-    driver = P._get_parser()
     rng = random.Random(11)
     alphabet = list("()[]{}⌊⌋⌈⌉+-−*·×/÷^!=<>≤≥≠~∼≡|_,.;…√∑∏²³ⁿ0123456789 \t") + \
         ["n", "k", "x", "a", "mod", "sum", "for", "if", "G.f.:", "e.g.f.", "(mod ", "..", "**", "!!", "<=", "1.5",
          "\\", "?", "é", "π", "αβ", "∞", "@"]
     texts = ["".join(rng.choice(alphabet) for _ in range(rng.randint(1, 14))) for _ in range(3000)]
 
-    def outcome(text):
-        try:
-            return P.parse_statement(text)
-        except FormulaError as exc:
-            return ("error", exc.line, exc.column)
-
-    try:
-        ours = [outcome(t) for t in texts]
-        P._parser = driver.lark
-        theirs = [outcome(t) for t in texts]
-    finally:
-        P._parser = driver
+    ours, theirs = _ours_and_lark(texts, lambda exc: ("error", exc.line, exc.column))
     assert sum(not isinstance(o, tuple) for o in ours) > 50  # some of the soup does parse
     assert ours == theirs
 
