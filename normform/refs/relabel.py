@@ -133,8 +133,9 @@ def _unlabeled_head(tokens, labels, marg) -> None:
 
 
 def _access_and_version(text, tokens, starts, labels, marg, access: bool = True, version: bool = True) -> None:
-    """``accessed 3 May 2020`` and ``version 2.1`` are notes: the model has
-    no accessed date or version, and neither is the issued date nor a page."""
+    """``accessed 3 May 2020`` and ``version 2.1`` are labeled note (the CRF
+    has no label for them; ``kinds.details`` moves them into the record's
+    accessed date and version), and neither is the issued date nor a page."""
     if access:
         for m in _ACCESS.finditer(text):
             for i in _index(tokens, starts, m.start(), m.end()):
@@ -202,8 +203,9 @@ def _odd_year(tokens, labels, marg) -> None:
 
 
 def _report_number(text, tokens, starts, labels) -> None:
-    """The number of a technical report goes to the note (the model has no
-    report-number field), its "Report" word to the genre."""
+    """The number of a technical report is labeled note (the CRF has no label
+    for it; ``kinds.details`` moves it into ``report_number``), its "Report"
+    word to the genre."""
     for m in _REPORT_NO.finditer(text):
         word = _index(tokens, starts, m.start("word"), m.end("word"))
         num = _index(tokens, starts, m.start("num"), m.end("num"))
