@@ -111,6 +111,8 @@ def repair(text: str, tokens: list[Token], labels: list[str], marg: list[float])
         _vancouver_initials(tokens, labels)
     if "doi" in text or "DOI" in text or "Doi" in text:
         _junk_after_doi(text, tokens, st(), labels)
+    if ("issue" in labels or "note" in labels or "pages" in labels) and ("-" in text or "–" in text):
+        _page_ranges(tokens, labels, marg)
 
 
 def _unlabeled_head(tokens, labels, marg) -> None:
@@ -395,3 +397,56 @@ def bad_doi_mentions(text: str, tokens: list[Token]) -> list[tuple[int, int, int
         if len(out) >= 20:
             break   # a junk line full of "doi": enough to doubt it, and stays linear
     return out
+
+
+_ISSUE_WORDS = frozenset(("no", "nr", "n", "num", "number", "issue", "heft", "fasc", "fascicle"))
+_RANGE_NEIGHBOURS = frozenset(("issue", "note", "volume", "O"))
+
+
+def _page_ranges(tokens: list[Token], labels: list[str], marg: list[float]) -> None:
+    """A number range ``N-M`` in the number cluster is one field: when the
+    labeler gives part of it to pages, all of it is pages
+    (``Discrete Math. 301, 1-20 (2005)``); when it gives all of it to the
+    issue or the note although the line has no pages, outside brackets and
+    with no issue word before it (``301 (2005), 1-20, 15 March 2005``), it
+    is the page range -- issue ranges come bracketed or named ("(3-4)",
+    "no. 3-4", "Issue 3-4").  A year range is left alone."""
+    n = len(tokens)
+    has_pages = "pages" in labels
+    for i in range(n - 2):
+        a, d, b = tokens[i], tokens[i + 1], tokens[i + 2]
+        if a.kind != "num" or d.kind != "dash" or b.kind != "num":
+            continue
+        trio = labels[i:i + 3]
+        if trio[0] == trio[1] == trio[2] == "pages" or "date" in trio:
+            continue
+        first, last = int(a.text), int(b.text)
+        if not (last >= first or len(b.text) < len(a.text)):
+            continue
+        if "pages" in trio:
+            if not all(x == "pages" or x in _RANGE_NEIGHBOURS for x in trio):
+                continue
+        elif has_pages or not (trio[0] == trio[1] == trio[2] and trio[0] in ("issue", "note")):
+            continue
+        else:
+            # bracketed ("(3-4)") or named ("no. 3-4") is an issue range
+            before = tokens[i - 1] if i else None
+            after = tokens[i + 3] if i + 3 < n else None
+            if before is not None and (before.text in "([" or after is not None and after.text in ")]"):
+                continue
+            j = i - 1
+            while j >= 0 and tokens[j].text in ".:":
+                j -= 1
+            if j >= 0 and tokens[j].text.lower() in _ISSUE_WORDS:
+                continue
+            # it must follow the number cluster (a volume, a date, an issue)
+            k = i - 1
+            while k >= 0 and labels[k] == "O":
+                k -= 1
+            if k < 0 or labels[k] not in ("volume", "date", "issue"):
+                continue
+        conf = min(marg[i:i + 3]) * 0.9
+        for m in range(i, i + 3):
+            labels[m] = "pages"
+            marg[m] = conf
+        has_pages = True
