@@ -111,8 +111,13 @@ def repair(text: str, tokens: list[Token], labels: list[str], marg: list[float])
         _vancouver_initials(tokens, labels)
     if "doi" in text or "DOI" in text or "Doi" in text:
         _junk_after_doi(text, tokens, st(), labels)
-    if ("issue" in labels or "note" in labels or "pages" in labels) and ("-" in text or "–" in text):
+    if ("-" in text or "–" in text) and ("issue" in labels or "note" in labels or "pages" in labels
+                                         or "O" in labels):
         _page_ranges(tokens, labels, marg)
+    if _attribution_gate(text):
+        _attribution(text, tokens, st(), labels)
+    if labels[-1] == "O" or labels[-1] in _ID_SCHEMES:
+        _leftover_tail(tokens, labels)
 
 
 def _unlabeled_head(tokens, labels, marg) -> None:
@@ -408,8 +413,8 @@ def _page_ranges(tokens: list[Token], labels: list[str], marg: list[float]) -> N
     labeler gives part of it to pages, all of it is pages
     (``Discrete Math. 301, 1-20 (2005)``); when it gives all of it to the
     issue or the note although the line has no pages, outside brackets and
-    with no issue word before it (``301 (2005), 1-20, 15 March 2005``), it
-    is the page range -- issue ranges come bracketed or named ("(3-4)",
+    with no issue word before it (``301 (2005), 1-20, 15 March 2005``), or
+    to no field at all, it is the page range -- issue ranges come bracketed or named ("(3-4)",
     "no. 3-4", "Issue 3-4").  A year range is left alone."""
     n = len(tokens)
     has_pages = "pages" in labels
@@ -426,7 +431,7 @@ def _page_ranges(tokens: list[Token], labels: list[str], marg: list[float]) -> N
         if "pages" in trio:
             if not all(x == "pages" or x in _RANGE_NEIGHBOURS for x in trio):
                 continue
-        elif has_pages or not (trio[0] == trio[1] == trio[2] and trio[0] in ("issue", "note")):
+        elif has_pages or not (trio[0] == trio[1] == trio[2] and trio[0] in ("issue", "note", "O")):
             continue
         else:
             # bracketed ("(3-4)") or named ("no. 3-4") is an issue range
@@ -450,3 +455,76 @@ def _page_ranges(tokens: list[Token], labels: list[str], marg: list[float]) -> N
             labels[m] = "pages"
             marg[m] = conf
         has_pages = True
+
+
+# --------------------------------------------------------------- trailing notes
+# Collections add their own remarks after a reference: who added or sent it,
+# cross references, errata ("[Added by the editors]", "(Contributed by N.
+# Quill, Dec 2012)", "See also entry Q000123.").  They belong to no field of
+# the work but must not be lost: they become the note.
+_ID_SCHEMES = frozenset(("doi", "arxiv", "mr", "zbl", "isbn", "issn", "url", "handle"))
+_ATTRIBUTION = re.compile(
+    r"(?:^|(?<=[.;,])\s+|(?<=[(\[])\s*|\s[-–—]+\s+)"
+    r"(?P<cue>[Ss]ee\s+also|[Cc]f\.|(?:[Aa]dded|[Cc]ontributed|[Cc]ommunicated|[Ee]ntered|[Cc]orrected|[Ss]upplied"
+    r"|[Ss]ent|[Rr]eported|[Ss]uggested)\s+by\b|[Cc]omments?:|[Ee]rratum|[Cc]orrigendum|[Rr]eprinted\s+in\b"
+    r"|[Ss]ee\s+(?:entry|entries|sequence|table)\b)")
+_FIELD_LABELS = frozenset(("title", "container_title", "volume", "pages", "date", "publisher"))
+_NOT_NOTE_WORDS = frozenset(("pp", "p", "vol", "no", "in", "and", "et", "al", "ed", "eds"))
+
+
+def _attribution_gate(text: str) -> bool:
+    return ("by " in text or "ee also" in text or "ee entr" in text or "Cf." in text or "cf." in text
+            or "omment" in text or "rrat" in text or "orrigend" in text or "eprinted" in text)
+
+
+def _attribution(text: str, tokens: list[Token], starts: list[int], labels: list[str]) -> None:
+    """A remark introduced by an attribution or cross-reference phrase, after
+    the work's own fields, is the note: to the closing bracket when it
+    opened one, else to the end of the line (identifiers keep their labels)."""
+    for m in _ATTRIBUTION.finditer(text):
+        first = bisect_left(starts, m.start("cue"))
+        if first >= len(tokens) or not any(x in _FIELD_LABELS for x in labels[:first]):
+            continue
+        if labels[first] in ("editors", "translators"):
+            continue      # "edited by" is a role, handled elsewhere
+        opener = text[:tokens[first].start].rstrip()[-1:]
+        closer = {"(": ")", "[": "]"}.get(opener)
+        last = len(tokens) - 1
+        if closer:
+            first -= 1    # the bracket goes with the remark
+            for j in range(first + 1, len(tokens)):
+                if tokens[j].text == closer:
+                    last = j
+                    break
+        for j in range(first, last + 1):
+            if labels[j] not in _ID_SCHEMES:
+                labels[j] = "note"
+        return
+
+
+def _leftover_tail(tokens: list[Token], labels: list[str]) -> None:
+    """Words at the end of the line that the labeler gave to no field
+    (``... 1-20. [Entered from the old card index]``): kept as the note
+    rather than dropped.  It takes two words or more (connectors such as
+    "pp" and "and" do not count) after a sentence break or an opening
+    bracket."""
+    j = len(tokens) - 1
+    while j >= 0 and (labels[j] == "O" or labels[j] in _ID_SCHEMES):
+        j -= 1
+    if j < 0 or labels[j] not in _FIELD_LABELS and labels[j] not in ("issue", "series", "place", "edition"):
+        return
+    tail = [k for k in range(j + 1, len(tokens)) if labels[k] == "O"]
+    words = [k for k in tail if tokens[k].kind in ("word", "num", "initial")
+             and tokens[k].text.lower().rstrip(".") not in _NOT_NOTE_WORDS]
+    if len(words) < 2:
+        return      # one stray word ("sv", "arXiv") is more likely a field's leftover than a remark
+    first = words[0]
+    # the remark starts a new sentence or bracket; "p>0", "Lason-Alon-..." continue a field
+    if first == 0 or tokens[first - 1].text not in ".,;([" or tokens[first - 1].end == tokens[first].start \
+            and tokens[first - 1].text in ".,;":
+        return
+    if tokens[first - 1].text in "([":
+        first -= 1
+    for k in tail:
+        if k >= first:
+            labels[k] = "note"     # its marginal stays the labeler's (for "no field")
