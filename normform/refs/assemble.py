@@ -25,6 +25,8 @@ from operator import eq, itemgetter
 from normform.model import (Date, FieldInfo, Identifier, Kind, Pages, Provenance, Reference,
                             Span)
 from normform.refs import lexicon as lx
+from normform.refs.confidence import record_confidence
+from normform.refs import repairs as rp
 from normform.refs.namelist import split_names
 from normform.refs.subgrammars import parse_date, parse_pages, parse_volume
 from normform.refs.tokens import Token
@@ -251,22 +253,36 @@ def _repair_missing_title(tokens: list[Token], labels: list[str]) -> float:
     return 0.8
 
 
-def _repair_missing_publisher(tokens: list[Token], labels: list[str]) -> None:
+def _repair_missing_publisher(tokens: list[Token], labels: list[str], words: frozenset[str] | set[str] = frozenset()
+                              ) -> None:
     """No publisher, but after the title an unlabeled run of capitalised
     words sits right before ", Place" or ", Year" ("Pitman, Boston, MA,
-    1984"): that run is the publisher.  Unknown publisher names get no
-    dictionary help, but the book layout is unambiguous."""
-    if "publisher" in labels or "title" not in labels or "container_title" in labels:
+    1984", "Quill Centre of Mathematics, 2021"): that run is the publisher.
+    Unknown publisher names get no dictionary help, but the book layout is
+    unambiguous.  In a chapter the run comes after the container's pages
+    ("In Book, pages 1-9. Quill House, Place, 1967")."""
+    if "publisher" in labels or "title" not in labels:
         return
-    last_title = max(i for i, lab in enumerate(labels) if lab == "title")
     n = len(tokens)
+    if "container_title" in labels:
+        # a chapter: "In Book, pages 1-9. Quill House, Place, 1967"
+        if "pages" not in labels or words.isdisjoint(_IN_WORDS):
+            return
+        last_title = n - 1 - labels[::-1].index("pages")
+        if last_title < n - 1 - labels[::-1].index("container_title"):
+            return
+    else:
+        last_title = n - 1 - labels[::-1].index("title")
     i = last_title + 1
     while i < n:
         if labels[i] == "O" and tokens[i].kind == "word" and tokens[i].text[:1].isupper() \
                 and tokens[i].text.lower() not in lx.CONNECTORS and i > 0 and tokens[i - 1].text in ".,;:":
             j = i
-            while j < n and labels[j] == "O" and (tokens[j].kind == "word" and tokens[j].text[:1].isupper()
-                                                  or tokens[j].text in ("&", "-", "and")) and j - i < 6:
+            while j < n and labels[j] in ("O", "note") and (
+                    tokens[j].kind == "word" and tokens[j].text[:1].isupper()
+                    or tokens[j].text in ("&", "-", "–", "and")
+                    or tokens[j].text in _NAME_GLUE and j + 1 < n and tokens[j + 1].text[:1].isupper()) \
+                    and j - i < 10:
                 j += 1
             if j + 1 < n and tokens[j].text == "," and labels[j + 1] in ("place", "date"):
                 for k in range(i, j):
@@ -277,11 +293,14 @@ def _repair_missing_publisher(tokens: list[Token], labels: list[str]) -> None:
             i += 1
 
 
+_NAME_GLUE = frozenset(("of", "for", "de", "für", "di", "du", "des"))
+_IN_WORDS = frozenset(("In", "in"))
 _VOL_WORDS = frozenset(("vol", "Vol", "volume", "Volume", "Vols", "vols"))
 _NUMBER_WORDS = frozenset(("Number", "number", "No", "no", "Nr", "nr"))
 _NUM_FILLERS = frozenset((".", "No", "no", "Band", "Bd", "Tome", "Nr"))
 _ROMAN = re.compile(r"[IVXLC]{1,6}\Z")
 _BOOK_RUNS = frozenset(("title", "series", "container_title"))
+_SERIES_GLUE = frozenset(("in", "of", "and", "for", "the", "der", "und", "de", "des", "en", "&"))
 
 
 def _repair_series_phrase(tokens: list[Token], labels: list[str], marg: list[float]) -> None:
@@ -314,7 +333,8 @@ def _repair_series_phrase(tokens: list[Token], labels: list[str], marg: list[flo
                 labels[x] = "series_number"
             labels[k] = "O"
             x = k + 1
-            while x < n and (labels[x] in _BOOK_RUNS or (labels[x] == "O" and tokens[x].text in ".-"
+            while x < n and (labels[x] in _BOOK_RUNS or (labels[x] == "O" and (tokens[x].text in ".-"
+                                                                            or tokens[x].text in _SERIES_GLUE)
                                                           and x + 1 < n and labels[x + 1] in _BOOK_RUNS)):
                 labels[x] = "series"
                 marg[x] = min(marg[x], 0.95)
@@ -402,7 +422,7 @@ def _repair_title_journal(tokens: list[Token], labels: list[str], marg: list[flo
     if "container_title" not in labels:
         if "title" not in labels:
             return 1.0
-        last = n - 1 - labels[::-1].index("title")
+        first, last = _first_run(labels, "title")   # a later title run is a note's
         nxt = last + 1
         while nxt < n and labels[nxt] == "O" and tokens[nxt].kind == "punct" and nxt - last < 3:
             nxt += 1
@@ -456,13 +476,17 @@ def _repair_preprint_server(tokens: list[Token], labels: list[str]) -> None:
     n = len(tokens)
     for i in range(1, n):
         t = tokens[i]
-        if t.text not in ("arXiv", "ArXiv") or t.kind != "word" or labels[i] not in ("O", "container_title", "title"):
+        if t.text not in ("arXiv", "ArXiv") or t.kind != "word" or labels[i] not in ("O", "container_title", "title",
+                                                                                  "note"):
             continue
         if tokens[i - 1].text not in ",.)" or (i + 1 < n and tokens[i + 1].text not in ",.;"):
             continue
-        if labels[i] != "O" and ((i + 1 < n and labels[i + 1] == labels[i]) or labels[i - 1] == labels[i]):
+        if labels[i] not in ("O", "note") and ((i + 1 < n and labels[i + 1] == labels[i])
+                                               or labels[i - 1] == labels[i]):
             continue
         labels[i] = "publisher"
+        if i + 1 < n and labels[i + 1] == "note" and tokens[i + 1].kind == "punct":
+            labels[i + 1] = "O"
         return
 
 
@@ -475,6 +499,56 @@ _SERIES_HINT = frozenset("lecture notes texts graduate studies series ser. tract
 def _publisher_score(words: list[str]) -> int:
     low = [w.lower() for w in words]
     return sum(1 for w in low if w in _STRONG_PUBLISHER) - 2 * sum(1 for w in low if w in _SERIES_HINT)
+
+
+_SERIES_GATE = frozenset(w for s in (_SERIES_HINT, lx.SERIES_WORDS) for w0 in s for w in (w0, w0.capitalize()))
+
+
+def _series_word(w: str) -> bool:
+    low = w.lower()
+    return low in _SERIES_HINT or low in lx.SERIES_WORDS
+
+
+def _repair_publisher_series(tokens: list[Token], labels: list[str]) -> None:
+    """A series printed inside the imprint: ``Cambridge University Press
+    (Encyclopedia of Mathematics)`` (Harvard styles), ``Quill Paperbacks,
+    Academic Press``, ``Contemporary inks. Polimetrica, 2006`` (a series,
+    then the publisher).  The bracketed part, or a head piece with a series
+    word before a piece without one, is the series."""
+    if "series" in labels:
+        return
+    n = len(labels)
+    for lab in ("publisher", "container_title"):
+        try:
+            s0 = labels.index(lab)
+        except ValueError:
+            continue
+        e = _run_end(labels, s0)
+        if lab == "container_title" and (any(x in labels for x in ("publisher", "volume", "pages", "issue"))
+                                         or e + 2 >= n or tokens[e + 1].text != "," or labels[e + 2] != "date"):
+            return   # a journal, or a book chapter's container
+        opened = next((k for k in range(s0 + 1, e + 1) if tokens[k].text == "("), -1)
+        if opened > s0 and e + 1 < n and tokens[e + 1].text == ")" and lab == "publisher" \
+                and any(_series_word(t.text) for t in tokens[opened + 1:e + 1]):
+            labels[opened] = "O"
+            for k in range(opened + 1, e + 1):
+                labels[k] = "series"
+            return
+        sep = next((k for k in range(s0 + 1, e) if tokens[k].text in ",."
+                    and not (tokens[k].text == "." and len(tokens[k - 1].text) <= 4)), -1)
+        if sep < 0:
+            continue
+        head = [t.text for t in tokens[s0:sep] if t.kind == "word"]
+        tail = [t.text for t in tokens[sep + 1:e + 1] if t.kind == "word"]
+        if not head or not tail or not any(map(_series_word, head)) or any(map(_series_word, tail)) \
+                or all(w.lower() in lx.PLACES for w in tail) or len(tail) > 5:
+            continue
+        labels[sep] = "O"
+        for k in range(s0, sep):
+            labels[k] = "series"
+        for k in range(sep + 1, e + 1):
+            labels[k] = "publisher"
+        return
 
 
 def _repair_author_tail(tokens: list[Token], labels: list[str], marg: list[float]) -> float:
@@ -838,7 +912,7 @@ def _repair_title_edges(tokens: list[Token], labels: list[str]) -> None:
             e = x - 1
         # glued math
         x = e + 1
-        while x < n and labels[x] == "O" and tokens[x].start == tokens[x - 1].end \
+        while x < n and labels[x] in ("O", "note") and tokens[x].start == tokens[x - 1].end \
                 and tokens[x].text not in _NO_GLUE and tokens[x].kind != "initial":
             x += 1
         if x > e + 1 and (x >= n or tokens[x].text in ".,;" or tokens[x].start > tokens[x - 1].end):
@@ -855,7 +929,8 @@ def _repair_title_edges(tokens: list[Token], labels: list[str]) -> None:
             y = x
             while y < n and labels[y] == "container_title":
                 y += 1
-            if y >= n or tokens[y].text in ",." and not (y + 1 < n and labels[y + 1] in ("volume", "pages")):
+            if y >= n or tokens[y].text in ",." and not (y + 1 < n and labels[y + 1] in ("volume", "pages")) \
+                    and not (y + 2 < n and tokens[y + 1].text == "," and labels[y + 2] in ("volume", "pages")):
                 for z in range(e + 1, y):
                     labels[z] = "title"
                 e = y - 1
@@ -1182,16 +1257,29 @@ def _repairs(text: str, tokens: list[Token], labels: list[str], marg: list[float
     so that lines without its trigger cost nothing."""
     words = set(map(_TEXT, tokens))
     repair = _repair_labels(tokens, labels, marg) * _repair_missing_title(tokens, labels)
+    if labels and labels[0] in ("authors", "editors") and "." in words:
+        repair *= rp.repair_author_period(tokens, labels, marg)
+        if "title" in labels:
+            rp.repair_family_in_title(tokens, labels)
     if labels and labels[0] == "authors":
         repair *= _repair_author_tail(tokens, labels, marg) * _repair_author_edges(tokens, labels, marg)
         repair *= _repair_authors_ate_title(tokens, labels, marg)
     if "container_title" in labels:
         _repair_lone_container(tokens, labels)
-    _repair_missing_publisher(tokens, labels)
+    if "publisher" not in labels and "container_title" not in labels and "title" in labels and "," in words:
+        rp.repair_title_ate_publisher(tokens, labels)
+    _repair_missing_publisher(tokens, labels, words)
     if not words.isdisjoint(_SERIES_KEYS):
         _repair_series_phrase(tokens, labels, marg)
     if not words.isdisjoint(_ORDINAL_WORDS):
         _repair_edition_word(tokens, labels)
+    if "title" in labels:
+        if "volume" in labels or "pages" in labels or "container_title" in labels or "issue" in labels:
+            repair *= rp.repair_title_into_journal(tokens, labels, marg)
+    else:
+        rp.repair_unlabeled_title(tokens, labels)
+        if "container_title" in labels:
+            rp.repair_comma_title_journal(tokens, labels)
     repair *= _repair_title_journal(tokens, labels, marg)
     if "arXiv" in words or "ArXiv" in words:
         _repair_preprint_server(tokens, labels)
@@ -1199,14 +1287,57 @@ def _repairs(text: str, tokens: list[Token], labels: list[str], marg: list[float
     if not words.isdisjoint(_ISSUE_GATE):
         _repair_issue_cluster(tokens, labels)
     if "title" in labels:
+        if "—" in words or " – " in text:
+            rp.repair_dash_note(tokens, labels)
+        if "," in words and ("and" in words or "&" in words):
+            rp.repair_serial_comma(tokens, labels)
+        rp.repair_split_title(tokens, labels)
+        if ":" in words:
+            rp.repair_colon_subtitle(tokens, labels)
+        if "series" in labels:
+            rp.repair_series_head(tokens, labels)
+        if "-" in words and "authors" in labels:
+            rp.repair_lowercase_names(tokens, labels)
+        if not words.isdisjoint(rp.EDITION_GATE):
+            rp.repair_title_edition(tokens, labels)
+        if "(" in words and not words.isdisjoint(rp.VOL_WORDS):
+            rp.repair_bracket_note(tokens, labels)
+            if "container_title" in labels:
+                rp.repair_book_volume_note(tokens, labels)
         _repair_title_edges(tokens, labels)
+        if not words.isdisjoint(_SERIES_KEYS):
+            # a part number joined to the title can bring "Number 2 in Series" next to it
+            _repair_series_phrase(tokens, labels, marg)
         _repair_quoted_title(tokens, labels)
     if "container_title" in labels:
         _repair_container_tail(tokens, labels)
         _repair_proceedings(tokens, labels)
         _repair_container_imprint(tokens, labels)
+        if "publisher" not in labels and "," in words and not words.isdisjoint(rp.PLACE_GATE):
+            rp.repair_container_imprint_place(tokens, labels)
+        if "publisher" not in labels and "pages" in labels and labels[-1] in ("O", "note"):
+            rp.repair_trailing_publisher(tokens, labels)
     if ":" in words and _COLON_PAGE.search(text):
         _repair_colon_pages(text, tokens, labels)
+    if "container_title" not in labels and ("volume" in labels or "series_number" in labels):
+        repair *= rp.repair_unlabeled_journal(tokens, labels)
+    if "container_title" not in labels and ("series" in labels or "pages" in labels):
+        repair *= rp.repair_in_book(tokens, labels)
+    elif "container_title" in labels and "," in words:
+        rp.repair_meeting_short_name(tokens, labels)
+    if "volume" in labels and ("(" in words or ":" in words):
+        rp.repair_volume_extras(tokens, labels)
+    if "container_title" in labels and "(" in words:
+        rp.repair_journal_series_mark(tokens, labels)
+    if "series" not in labels and not words.isdisjoint(_SERIES_GATE) \
+            and ("publisher" in labels or "container_title" in labels):
+        _repair_publisher_series(tokens, labels)
+    if "publisher" in labels:
+        rp.repair_publisher_head(tokens, labels)
+        if ";" in words:
+            rp.repair_joint_imprint(tokens, labels)
+        if not words.isdisjoint(rp.IMPRINT_GATE):
+            rp.repair_publisher_place(tokens, labels)
     return repair
 
 
@@ -1291,6 +1422,12 @@ def assemble(text: str, tokens: list[Token], labels: list[str], marg: list[float
         best, rest = _pick(runs, field, longest=(field != "place" and not (field == "publisher" and pub_first)))
         if best is None:
             continue
+        if field == "title" and rest and best is not runs["title"][0]:
+            # a title run printed after the imprint or the venue is a note
+            # ("Title, Series, Publisher, 2013. A subtitle-like remark.")
+            first = runs["title"][0]
+            if any(lab in _IMPRINT for lab in labels[first.last + 1:best.first]):
+                best, rest = first, [r for r in runs["title"] if r is not first]
         value = _strip_field(field, clean_text(raw(best)))
         if field == "edition" and value.isdigit():
             # "2nd": the tokenizer splits the ordinal suffix off
@@ -1314,6 +1451,8 @@ def assemble(text: str, tokens: list[Token], labels: list[str], marg: list[float
                     and not any(w.lower() in _SERIES_HINT for w in tail.split()):
                 values["series"] = head
                 value = tail
+        if value.count("(") > value.count(")") and text[end:end + 1] == ")":
+            value += ")"   # "Society (AMS)": the closing bracket was left out of the run
         if field == "publisher":
             # company suffixes the labeler tends to leave out: ", Inc.", "and Co."
             m = _COMPANY_TAIL.match(text, tokens[best.last].end)
@@ -1490,6 +1629,18 @@ def assemble(text: str, tokens: list[Token], labels: list[str], marg: list[float
         infos = [FieldInfo("series", round(i.confidence * 0.8, 4), i.span) if i.field == "container_title" else i
                  for i in infos]
 
+    if (crun is not None and values.get("container_title") and not values.get("series")
+            and not any(values.get(k) for k in ("issue", "pages", "editors"))
+            and any(w.lower() in _SERIES_HINT for w in values["container_title"].split())
+            and not _PROC.search(values["container_title"])
+            and not _IN_BEFORE.search(text, max(0, tokens[crun.first].start - 5), tokens[crun.first].start)):
+        # "Title, Translations of Quill Monographs 91 (1991)": a book in a
+        # numbered series, no pages -- the number is the series number
+        values["series"] = values.pop("container_title")
+        if values.get("volume") and not values.get("series_number"):
+            values["series_number"] = values.pop("volume")
+        infos = [FieldInfo("series", round(i.confidence * 0.8, 4), i.span) if i.field == "container_title" else i
+                 for i in infos]
     found = _kind_words(text)
     # Literal dates written in words: "to appear", "in press"
     if "date" not in values and found.get("unpub") in ("to appear", "in press", "forthcoming", "submitted",
@@ -1497,7 +1648,7 @@ def assemble(text: str, tokens: list[Token], labels: list[str], marg: list[float
         values["date"] = Date(literal=found["unpub"])
 
     kind = _kind(text, values, idents, found)
-    rec_conf = calibrated(_record_confidence(values, infos, seq_prob, penalty, kind, etal))
+    rec_conf = record_confidence(values, infos, seq_prob, penalty, kind, etal, tokens, labels, marg)
     prov = Provenance(raw=text, fields=tuple(infos), confidence=round(rec_conf, 4))
     extra: tuple[tuple[str, str], ...] = (("et-al", "true"),) if etal else ()
     return Reference(
@@ -1524,6 +1675,7 @@ def assemble(text: str, tokens: list[Token], labels: list[str], marg: list[float
     )
 
 
+_IMPRINT = frozenset(("publisher", "container_title", "pages", "volume", "series"))
 _IN_WORD = re.compile(r"(?:^|[.,]\s*)In[: ]")
 
 
@@ -1554,70 +1706,4 @@ def _kind(text: str, v: dict, idents: list[Identifier], found: dict[str, str]) -
     return Kind.OTHER
 
 
-def _record_confidence(v: dict, infos: list[FieldInfo], seq_prob: float, penalty: float,
-                       kind: Kind, etal: bool) -> float:
-    """Record confidence: the record is right only if every field is, so the
-    field confidences multiply (identifiers, checked by their own grammar,
-    do not count); then the labeling's overall probability and the
-    validation penalties.  A record with neither a title nor authors is
-    never trusted."""
-    if not infos:
-        return 0.0
-    conf = 1.0
-    for info in infos:
-        if info.field not in _ID_FIELDS:
-            conf *= info.confidence
-    conf = min(conf, seq_prob ** 0.5 if seq_prob > 0 else 0.0) * penalty
-    if not v.get("title"):
-        conf *= 0.5
-    if not v.get("authors") and not v.get("editors"):
-        conf *= 0.7
-    if kind is Kind.OTHER:
-        conf *= 0.8
-    # an incomplete record for its kind is worth a look
-    missing = {Kind.ARTICLE: ("volume", "date"), Kind.BOOK: ("publisher", "date"),
-               Kind.CHAPTER: ("container_title", "date"), Kind.PAPER: ("container_title", "date")}.get(kind, ())
-    for key in missing:
-        if not v.get(key):
-            conf *= 0.85
-    return max(0.0, min(1.0, conf))
-
-
 _ID_FIELDS = frozenset(("doi", "arxiv", "mr", "zbl", "isbn", "issn", "url", "handle"))
-
-
-# --- calibration -------------------------------------------------------------
-# The raw record confidence is a product of field marginals and penalties; a
-# monotone map fitted on held-out *synthetic* lines (scripts/calibrate_refs.py,
-# normform/data/refs-calibration.json) turns it into "share of records this
-# confident that are exactly right".  No map file: identity.
-CALIBRATE = True
-
-
-@lru_cache(maxsize=1)
-def _calibration_knots() -> tuple[tuple[float, ...], tuple[float, ...]] | None:
-    import json
-
-    from normform.resources import data_path
-    try:
-        with open(data_path("refs-calibration.json"), encoding="utf-8") as fh:
-            data = json.load(fh)
-        xs, ys = tuple(float(x) for x in data["raw"]), tuple(float(y) for y in data["calibrated"])
-    except (OSError, ValueError, KeyError):
-        return None
-    return (xs, ys) if len(xs) == len(ys) and len(xs) >= 2 else None
-
-
-def calibrated(raw: float) -> float:
-    knots = _calibration_knots() if CALIBRATE else None
-    if knots is None:
-        return raw
-    from bisect import bisect_right
-    xs, ys = knots
-    if raw <= xs[0]:
-        return ys[0] * (raw / xs[0]) if xs[0] > 0 else ys[0]
-    if raw >= xs[-1]:
-        return ys[-1]
-    k = bisect_right(xs, raw)
-    x0, x1, y0, y1 = xs[k - 1], xs[k], ys[k - 1], ys[k]
-    return y0 + (y1 - y0) * (raw - x0) / (x1 - x0) if x1 > x0 else y1

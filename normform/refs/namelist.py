@@ -68,6 +68,8 @@ def _core_words(piece: str) -> int:
 
 def _ends_initial(piece: str) -> bool:
     words = piece.split()
+    while len(words) > 1 and words[-1] in lx.PARTICLES:
+        words.pop()   # "B. L. van der": the particles of an inverted name follow its initials
     return bool(words) and bool(_INITIAL_ONLY.match(words[-1])) and piece not in lx.SUFFIXES
 
 
@@ -110,12 +112,13 @@ def split_names(text: str) -> tuple[tuple[Name, ...], bool]:
         and _core_words(chunks[0]) <= 3 and not _ends_initial(chunks[0])
     if not inverted and len(chunks) >= 2 and "," in groups[0] and not _is_initials(chunks[0]) \
             and _core_words(chunks[0]) <= 3 and chunks[0].split()[-1].lower() not in lx.GIVEN_NAMES \
+            and not _ends_initial(chunks[0]) and not _INITIAL_ONLY.match(chunks[0].split()[0]) \
             and all(_given_word(w) for w in chunks[1].split()):
         # "Quillfeather, Ada": the second piece starts with a known given name
         inverted = True
     if not inverted and len(chunks) % 2 == 0 and groups[-1].count(",") == 1 and \
             all(_core_words(c) <= 3 and c[:1].isupper() and not c.endswith(".") for c in chunks[1::2]) and \
-            (len(groups) >= 2 or (len(chunks) == 2 and len(chunks[1].split()) == 1
+            (len(groups) >= 2 or (len(chunks) == 2 and _core_words(chunks[1]) == 1
                                   # "P. Tamsel, Inkwells", "Ehrhard Vellum, M-structure": a
                                   # given-first name and a stray word, not "Penković, Ranko"
                                   and _core_words(chunks[0]) == 1 and not _ends_initial(chunks[0].split()[0]))):
@@ -131,7 +134,9 @@ def split_names(text: str) -> tuple[tuple[Name, ...], bool]:
                                                  _looks_given(chunks[i + 1], c)):
             given = chunks[i + 1]
             suffix = None
-            if i + 2 < len(chunks) and chunks[i + 2].rstrip(".") + "." in lx.SUFFIXES | {"Jr.", "Sr."}:
+            if i + 2 < len(chunks) and chunks[i + 2].rstrip(".") + "." in lx.SUFFIXES | {"Jr.", "Sr."} \
+                    and not (i + 3 < len(chunks) and _is_initials(chunks[i + 3])):
+                # ("Quill, J. and Jun, J.": "Jun" before initials is a family name)
                 suffix = chunks[i + 2]
                 i += 1
             names.append(_family_given(c, given, suffix))
@@ -155,8 +160,11 @@ def _dotted_suffix(n: Name) -> Name:
 
 
 def _looks_given(chunk: str, family_chunk: str) -> bool:
-    # "Quillby, Peter": one or two capitalised words, no particles
+    # "Quillby, Peter": one or two capitalised words, no particles (but
+    # "Plume, Joris van der": the particles of the family may follow)
     words = chunk.split()
+    while len(words) > 1 and words[-1] in lx.PARTICLES:
+        words.pop()
     return 1 <= len(words) <= 3 and all(w[:1].isupper() for w in words) and _core_words(family_chunk) <= 3
 
 
