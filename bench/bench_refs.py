@@ -1,7 +1,7 @@
 #!/usr/bin/env python3
 """Throughput of the reference parser, and pybtex on the same records.
 
-    python bench/bench_refs.py [--n 3000] [--file LINES.txt]
+    python bench/bench_refs.py [--n 3000] [--file LINES.txt] [--stages]
 
 Records are invented by ``scripts/synth_refs.py`` (fixed seed); each is
 written once as a free-form line (legacy templates) and once as a BibTeX
@@ -10,6 +10,11 @@ BibTeX parser (``pybtex.database.parse_string``) over the same records,
 in the same run, on one core, and print the ratio.  Memory: peak traced
 allocation while streaming N and 4N lines through the generator -- flat
 streaming means the two peaks are about equal.
+
+``--stages`` also prints where the time goes per line (tokenizer, feature
+strings, python-crfsuite, label repairs, assembly, checks), timed by
+wrapping the parser's own stage functions, so the figures follow the real
+pipeline.
 """
 
 from __future__ import annotations
@@ -62,6 +67,7 @@ def main(argv=None) -> int:
     ap = argparse.ArgumentParser(description=__doc__.splitlines()[0])
     ap.add_argument("--n", type=int, default=3000)
     ap.add_argument("--file", help="time these lines instead (no pybtex ratio)")
+    ap.add_argument("--stages", action="store_true", help="also print the time per line of each stage")
     args = ap.parse_args(argv)
     try:
         os.sched_setaffinity(0, {sorted(os.sched_getaffinity(0))[0]})   # one core
@@ -99,6 +105,9 @@ def main(argv=None) -> int:
               f"records/s; CPU {theirs_cpu:.2f}s = {len(lines) / theirs_cpu:,.0f} records/s")
         print(f"ratio normform / pybtex: {theirs / ours:.2f}x (wall), {theirs_cpu / ours_cpu:.2f}x (CPU)")
 
+    if args.stages:
+        stages(lines)
+
     # streaming memory: peak while streaming N lines vs 4N lines
     peaks = []
     for mult in (1, 4):
@@ -111,6 +120,45 @@ def main(argv=None) -> int:
     print(f"peak traced memory streaming {len(lines)} lines: {peaks[0] / 1e6:.1f} MB; "
           f"{4 * len(lines)} lines: {peaks[1] / 1e6:.1f} MB")
     return 0
+
+
+def stages(lines: list[str]) -> None:
+    """CPU time per line of each parser stage (wrapped stage functions)."""
+    from normform.refs import api, assemble, kinds, labeler, relabel, validate
+
+    spent: dict[str, float] = {}
+
+    def timed(name, fn):
+        def wrapper(*a, **k):
+            c0 = time.process_time()
+            try:
+                return fn(*a, **k)
+            finally:
+                spent[name] = spent.get(name, 0.0) + time.process_time() - c0
+        return wrapper
+
+    saved = [(api, "tokenize"), (labeler, "sequence_features"), (labeler, "label"), (relabel, "repair"),
+             (assemble, "assemble"), (kinds, "details"), (validate, "review")]
+    originals = [(mod, name, getattr(mod, name)) for mod, name in saved]
+    names = {"tokenize": "tokenizer", "sequence_features": "feature strings", "label": "labeler (all)",
+             "repair": "label repairs", "assemble": "assembly + repairs", "details": "kind details",
+             "review": "validation"}
+    try:
+        for mod, name, fn in originals:
+            setattr(mod, name, timed(names[name], fn))
+        c0 = time.process_time()
+        for line in lines:
+            api.parse_reference(line)
+        total = time.process_time() - c0
+    finally:
+        for mod, name, fn in originals:
+            setattr(mod, name, fn)
+    n = len(lines)
+    spent["python-crfsuite (labeler minus features)"] = spent.pop("labeler (all)") - spent["feature strings"]
+    spent["rest (hygiene, records)"] = total - sum(spent.values())
+    print(f"per line, CPU ({n} lines, {total / n * 1e6:.0f} us in all):")
+    for name, sec in sorted(spent.items(), key=lambda kv: -kv[1]):
+        print(f"  {name:42s} {sec / n * 1e6:7.1f} us  {100 * sec / total:5.1f} %")
 
 
 if __name__ == "__main__":
