@@ -3,6 +3,7 @@
 
     nice -n 10 python bench/bench_clean.py                 # 100,000 lines, 1 and 2 jobs
     nice -n 10 python bench/bench_clean.py --lines 1000000 --jobs 2
+    nice -n 10 python bench/bench_clean.py --lines 20000 --cluster-quality   # clusters vs the truth
 
 The input is the demo generator's invented legacy lines (fixed seed).  For
 each run it prints wall time, lines/s, the speed-up from 1 to N jobs, and
@@ -10,7 +11,8 @@ peak memory: the largest single process (``ru_maxrss`` of the children)
 and the sampled sum over the main process and its workers (psutil, when
 installed).  On a shared machine wall time says little, so it also prints
 the CPU seconds used (all processes) and lines per CPU-second, and the load
-average during the run.  As a yardstick from a general-purpose library measured in the
+average during the run, and the worker's CPU per record split by stage (parser,
+BibTeX, CSL-JSON, house style, report row, the rest).  As a yardstick from a general-purpose library measured in the
 same run, it parses the produced ``references.bib`` with pybtex and prints
 the ratio of clean's lines/s to pybtex's entries/s.
 """
@@ -18,6 +20,8 @@ the ratio of clean's lines/s to pybtex's entries/s.
 from __future__ import annotations
 
 import argparse
+import importlib
+import itertools
 import json
 import os
 import resource
@@ -31,6 +35,7 @@ from pathlib import Path
 
 ROOT = Path(__file__).resolve().parent.parent
 sys.path.insert(0, str(ROOT / "scripts"))
+sys.path.insert(0, str(ROOT / "bench"))
 
 
 def make_input(path: Path, lines: int) -> None:
@@ -122,6 +127,59 @@ def parser_rate(src: Path, lines: int = 2000) -> float:
     return len(texts) / (time.process_time() - start)
 
 
+STAGE_CPU: dict[str, float] = {}
+
+
+def _timed(name: str, fn):
+    def wrapper(*args, **kwargs):
+        start = time.process_time()
+        try:
+            return fn(*args, **kwargs)
+        finally:
+            STAGE_CPU[name] = STAGE_CPU.get(name, 0.0) + time.process_time() - start
+    return wrapper
+
+
+def timed_toolkit():
+    """The shipped toolkit with a CPU timer around each collaborator (for ``stage_split``)."""
+    import dataclasses
+
+    from normform.batch.toolkit import default
+
+    kit = default()
+    return dataclasses.replace(kit, parse_many=_timed("parser (parse_many)", kit.parse_many),
+                               csl=_timed("CSL-JSON record", kit.csl), bibtex=_timed("BibTeX", kit.bibtex),
+                               house=_timed("house style", kit.house))
+
+
+def stage_split(src: Path, lines: int = 3000) -> tuple[float, dict[str, float]]:
+    """Worker CPU per record by stage, on the first ``lines`` lines, in this process.
+
+    The first 500 lines warm up (model loading, memo caches) and are not counted.
+    """
+    from normform.batch import process, rowhtml
+    from normform.batch.inputs import ReadStats, expand, iter_items
+
+    # the toolkit is named by "module:attr"; run as a script this file is __main__, and
+    # process_chunk imports it again as bench_clean: use that module's timers throughout
+    bench = importlib.import_module("bench_clean")
+    items = list(itertools.islice(iter_items(expand([str(src)]), ReadStats()), lines + 500))
+    settings = process.Settings(toolkit="bench_clean:timed_toolkit")
+    process.process_chunk(items[:500], 1, settings)
+    record_row = rowhtml.record_row
+    rowhtml.record_row = bench._timed("report row (diff)", record_row)
+    bench.STAGE_CPU.clear()
+    start = time.process_time()
+    for first in range(500, len(items), 500):
+        process.process_chunk(items[first:first + 500], first + 1, settings)
+    total = time.process_time() - start
+    rowhtml.record_row = record_row
+    counted = len(items) - 500
+    per = {name: cpu / counted * 1e6 for name, cpu in bench.STAGE_CPU.items()}
+    per["rest (JSON, keys, reasons, packing)"] = total / counted * 1e6 - sum(per.values())
+    return total / counted * 1e6, per
+
+
 def pybtex_rate(bib: Path, limit: int = 20000) -> float:
     from pybtex.database import parse_string
 
@@ -140,11 +198,53 @@ def pybtex_rate(bib: Path, limit: int = 20000) -> float:
     return len(db.entries) / (time.perf_counter() - start)
 
 
+def cluster_quality(lines: int, jobs: int = 2) -> int:
+    """Pairwise precision and recall of ``clusters.jsonl`` against the generator's truth.
+
+    Every two lines made from one invented work are a true pair
+    (``make_demo_corpus.build_with_truth``); junk lines belong to no work.
+    """
+    import itertools
+    from collections import defaultdict
+
+    from make_demo_corpus import build_with_truth
+
+    data = build_with_truth(lines)
+    truth = defaultdict(list)
+    for number, (_, work) in enumerate(data, start=1):
+        if work is not None:
+            truth[work].append(number)
+    gold = {p for members in truth.values() for p in itertools.combinations(members, 2)}
+    with tempfile.TemporaryDirectory(prefix="bench-clusters-") as tmp:
+        src, out = Path(tmp) / "legacy.txt", Path(tmp) / "out"
+        src.write_bytes(b"\n".join(line for line, _ in data) + b"\n")
+        subprocess.run([sys.executable, "-m", "normform.cli", "clean", str(src), "-o", str(out),
+                        "--jobs", str(jobs), "--quiet"], check=True, stdout=subprocess.DEVNULL)
+        found: set[tuple[int, int]] = set()
+        largest, works_in_largest = 0, 0
+        with open(out / "clusters.jsonl", encoding="utf-8") as handle:
+            for row in handle:
+                members = sorted(m["line"] for m in json.loads(row)["members"])
+                found |= set(itertools.combinations(members, 2))
+                if len(members) > largest:
+                    largest = len(members)
+                    works_in_largest = len({data[n - 1][1] for n in members})
+    hits = len(found & gold)
+    print(f"clusters on {lines:,} generated lines: pairwise precision {hits / max(len(found), 1):.4f}, "
+          f"recall {hits / max(len(gold), 1):.4f} ({len(found):,} pairs found, {len(gold):,} true); "
+          f"largest cluster {largest} lines from {works_in_largest} invented works")
+    return 0
+
+
 def main() -> int:
     parser = argparse.ArgumentParser(description=__doc__.splitlines()[0])
     parser.add_argument("--lines", type=int, default=100_000)
     parser.add_argument("--jobs", type=int, nargs="+", default=[1, 2])
+    parser.add_argument("--cluster-quality", action="store_true",
+                        help="instead: precision/recall of the duplicate clusters on --lines generated lines")
     args = parser.parse_args()
+    if args.cluster_quality:
+        return cluster_quality(args.lines, args.jobs[-1])
     with tempfile.TemporaryDirectory(prefix="bench-clean-") as tmp:
         tmp = Path(tmp)
         src = tmp / "legacy.txt"
@@ -178,6 +278,11 @@ def main() -> int:
                 print(f"Amdahl bound from the 1-job CPU ({total:.0f}s, of which clustering+report "
                       f"{serial:.1f}s run in one process): {n} jobs on {n} idle cores <= "
                       f"{total / ((total - serial) / n + serial):.2f}x")
+        total, per = stage_split(src)
+        print(f"worker CPU by stage (this process, lines 501-3,500 of the input; every record gets a "
+              f"report row here, in a run only the first --report-rows do): {total:,.0f} us/record")
+        for name, us in sorted(per.items(), key=lambda kv: -kv[1]):
+            print(f"         {name:38s} {us:7,.0f} us  ({us / total:5.1%})")
         parsed = parser_rate(src)
         print(f"parser alone (normform.parse_reference, same input, first 2,000 lines, this process): "
               f"{parsed:,.0f} lines per CPU-second")

@@ -15,10 +15,14 @@ canonical form is what readers store in ``Reference.title_protected``.
 from __future__ import annotations
 
 import re
+from functools import lru_cache
 
 _WORD = re.compile(r"[^\s]+")
 _EDGE = "\"'“”‘’.,;:!?"
 _PAIRS = (("(", ")"), ("[", "]"))
+# a word whose first and last characters are none of these has no edge to strip
+_OPENERS = frozenset(_EDGE + "([")
+_CLOSERS = frozenset(_EDGE + ")]")
 _SMALL = frozenset("a an and as at but by for from in into nor of on or over per the to upon via vs with".split())
 
 
@@ -29,7 +33,8 @@ def _cores(title: str) -> list[tuple[int, int, str, bool]]:
     for m in _WORD.finditer(title):
         token = m.group(0)
         left, right = 0, len(token)
-        changed = True
+        # most words have nothing to strip: skip the loop (same result)
+        changed = token[0] in _OPENERS or token[-1] in _CLOSERS
         while changed and right > left:
             changed = False
             core = token[left:right]
@@ -51,9 +56,14 @@ def _cores(title: str) -> list[tuple[int, int, str, bool]]:
     return out
 
 
+def _no_upper(text: str) -> bool:
+    """No upper-case letter in ``text`` (``islower`` answers most words at C speed)."""
+    return text.islower() or not any(ch.isupper() for ch in text)
+
+
 def _sentence_case(words: list[tuple[int, int, str, bool]]) -> bool:
-    rest = [w for _, _, w, opens in words if not opens and w.lower() not in _SMALL and w[:1].isalpha()
-            and not any(ch.isupper() for ch in w[1:])]
+    rest = [w for _, _, w, opens in words if not opens and w[:1].isalpha() and _no_upper(w[1:])
+            and w.lower() not in _SMALL]
     if not rest:
         return True
     capitalized = sum(1 for w in rest if w[0].isupper())
@@ -65,10 +75,10 @@ def auto_intervals(title: str) -> list[tuple[int, int]]:
     sentence = _sentence_case(words)
     out = []
     for start, end, word, opens in words:
-        letters = [ch for ch in word if ch.isalpha()]
+        letters = word if word.isalpha() else "".join(ch for ch in word if ch.isalpha())
         if not letters:
             continue
-        mixed = any(ch.isupper() for ch in letters[1:])
+        mixed = not _no_upper(letters[1:])
         proper = sentence and not opens and letters[0].isupper()
         if mixed or proper:
             out.append((start, end))
@@ -103,6 +113,18 @@ def intervals(title: str, hints: tuple[str, ...] | list[str] = ()) -> list[tuple
     Every occurrence of a protected text is protected (a second "Lie" as well as the
     first), so that reading the braces back gives the same hints.
     """
+    if isinstance(hints, tuple):
+        return list(_intervals(title, hints))
+    return list(_intervals(title, tuple(hints)))
+
+
+@lru_cache(maxsize=1 << 15)
+def _intervals(title: str, hints: tuple[str, ...]) -> tuple[tuple[int, int], ...]:
+    # memoised: a collection cites the same titles again and again
+    return tuple(_compute_intervals(title, hints))
+
+
+def _compute_intervals(title: str, hints: tuple[str, ...]) -> list[tuple[int, int]]:
     auto = auto_intervals(title)
     first = _merge(auto + [span for hint in hints for span in _occurrences(title, hint)])
     texts = dict.fromkeys(title[a:b] for a, b in first)

@@ -9,10 +9,12 @@ from normform.model import Identifier, Name, Reference
 
 
 def _db(rows, ids=()):
+    """rows: (author key, year, title) or (author key, year, title, locator)."""
     db = _connect(":memory:")
-    for seq, (author, year, title) in enumerate(rows, start=1):
-        db.execute("INSERT INTO keys VALUES (?,?,?,?,?,?,?,?,?,?,?,?)",
-                   (seq, author, year, keys.title_key(title), keys.title_prefix(title), "", 0.5, 3, 0, 0, 0, 0))
+    for seq, (author, year, title, *where) in enumerate(rows, start=1):
+        db.execute("INSERT INTO keys VALUES (?,?,?,?,?,?,?,?,?,?,?,?,?)",
+                   (seq, author, year, keys.title_key(title), keys.title_prefix(title), "", 0.5, 3, 0, 0, 0, 0,
+                    where[0] if where else ""))
     db.executemany("INSERT INTO ids VALUES (?,?)", ids)
     return db
 
@@ -59,8 +61,8 @@ def test_big_block_is_windowed_and_still_finds_neighbours():
 def test_canonical_prefers_confidence_then_fields_then_first():
     db = _connect(":memory:")
     for seq, conf, nf in [(1, 0.5, 3), (2, 0.9, 2), (3, 0.9, 4), (4, 0.9, 4)]:
-        db.execute("INSERT INTO keys VALUES (?,?,?,?,?,?,?,?,?,?,?,?)",
-                   (seq, "a", 1, "t", "t", "", conf, nf, 0, 0, 0, 0))
+        db.execute("INSERT INTO keys VALUES (?,?,?,?,?,?,?,?,?,?,?,?,?)",
+                   (seq, "a", 1, "t", "t", "", conf, nf, 0, 0, 0, 0, ""))
     assert clusters.canonical(db, [1, 2, 3, 4]) == 3
 
 
@@ -118,3 +120,42 @@ def test_windowed_block_of_identical_titles_stays_linear():
     assert clusters.find(db := _db(rows)) == [list(range(1, 3001, 3)), list(range(2, 3001, 3)),
                                              list(range(3, 3001, 3))]
     db.close()
+
+
+def test_long_identical_title_and_garbled_author_need_the_same_place():
+    # A collection reuses titles: the same long title and year by different people is two
+    # works unless the citations also agree on where: the same volume and first page.
+    title = "A combinatorial interpretation of Bell numbers modulo primes"
+    db = _db([("tillinghast", 1994, title, "31|212"),
+              ("tllnghast", 1994, title, "31|212"),      # author key garbled beyond ratio 70
+              ("xanthopoulos", 1994, title, "58|17"),    # another work, same title and year
+              ("winterbourne", 1994, title, ""),         # nothing to compare: not merged
+              ("ystradgynlais", 1994, title, "31|640"),  # same volume, another first page
+              ("zoltanovich", 1994, title, "31|")])      # a volume alone is not enough
+    assert clusters.find(db) == [[1, 2]]
+
+
+def test_place_agreement_rules():
+    def place(*locators):
+        p = clusters._Place()
+        for loc in locators:
+            p.add(loc)
+        return p
+
+    same = clusters._same_place
+    assert same(place("12|101"), place("12|101"))
+    assert same(place("12|101", "12|"), place("12|101"))   # one citation without pages: the cell still knows
+    assert same(place("12|101", "13|101"), place("13|101"))
+    assert not same(place("12|"), place("12|101"))         # first page unknown on one side
+    assert not same(place("|101"), place("7|101"))         # volume unknown on one side
+    assert not same(place("12|101"), place("12|102"))      # first pages differ
+    assert not same(place(), place("12|101")) and not same(None, place("12|101"))
+
+
+def test_locator_key():
+    from normform.model import Pages
+
+    ref = Reference(title="t", volume="XII", pages=Pages(first="101", last="120"))
+    assert keys.locator(ref) == "xii|101"
+    assert keys.locator(Reference(title="t", pages=Pages(article="e17"))) == "|e17"
+    assert keys.locator(Reference(title="t")) == ""

@@ -5,7 +5,8 @@ on the workers and read from the work database in sorted order), then
 :mod:`rapidfuzz` similarity between the *distinct* titles of each block:
 
 1. same first-author key         -> titles similar, same year (or one unknown);
-2. same title prefix and year    -> titles similar and authors compatible;
+2. same title prefix and year    -> titles similar and authors compatible (or a long,
+                                    near-identical title with the same volume and first page);
 3. a shared valid identifier     -> DOI, arXiv, MR or Zbl;
 4. same folded text              -> a line typed twice (when it has some substance).
 
@@ -210,36 +211,82 @@ def _author_pass(db, forest: Forest, deferred: _Deferred, similarity: float, thr
                 forest.union(undated[i], undated[j])
 
 
-def _authors_compatible(a: str, b: str, ta: str, tb: str) -> bool:
-    """Authors alike, or a long, near-identical title (same year) outweighs a garbled author."""
+class _Place:
+    """The volumes and first pages seen in one cell (see :func:`normform.batch.keys.locator`)."""
+
+    __slots__ = ("volumes", "pages")
+
+    def __init__(self) -> None:
+        self.volumes: set[str] = set()
+        self.pages: set[str] = set()
+
+    def add(self, locator: str) -> None:
+        if locator:
+            volume, _, page = locator.partition("|")
+            if volume:
+                self.volumes.add(volume)
+            if page:
+                self.pages.add(page)
+
+
+def _same_place(a: _Place | None, b: _Place | None) -> bool:
+    """Both cells know a volume and a first page, and share one of each.
+
+    (Volume *or* first page was too weak: on 100,000 generated lines it let
+    through 2,000 false pairs, a volume alone being shared by one work in ~40
+    of the same year.)
+    """
+    if a is None or b is None:
+        return False
+    return bool(a.volumes and b.volumes and a.pages and b.pages
+                and not a.volumes.isdisjoint(b.volumes) and not a.pages.isdisjoint(b.pages))
+
+
+def _authors_compatible(a: str, b: str, ta: str, tb: str,
+                        pa: _Place | None = None, pb: _Place | None = None) -> bool:
+    """Authors alike; or a long, near-identical title (same year) *in the same place* (the same
+    volume and first page) outweighs a garbled author.
+
+    Without the place the title rule merged different works: a collection reuses titles
+    ("A note on integer partitions") and on a million generated lines it built a cluster of 124.
+    """
     if not a or not b or a == b or fuzz.ratio(a, b, score_cutoff=70):
         return True
-    return len(ta.split()) >= 5 and bool(fuzz.ratio(ta, tb, score_cutoff=97))
+    return (len(ta.split()) >= 5 and _same_place(pa, pb)
+            and bool(fuzz.ratio(ta, tb, score_cutoff=97)))
 
 
 def _prefix_pass(db, forest: Forest, similarity: float, threads: int) -> None:
     """Same title start and the same year (undated lines are left to the author pass)."""
-    cur = db.execute("SELECT prefix, year, title, author, seq FROM keys "
+    cur = db.execute("SELECT prefix, year, title, author, seq, locator FROM keys "
                      "WHERE prefix != '' AND year IS NOT NULL ORDER BY prefix, year, title, seq")
     for _, block in itertools.groupby(cur, key=itemgetter(0, 1)):
         titles: list[str] = []
         cells: list[dict[str, int]] = []     # per distinct title: author -> first record
-        for _, _, title, author, seq in block:
+        places: list[dict[str, _Place]] = []  # per distinct title: author -> volumes and pages seen
+        for _, _, title, author, seq, locator in block:
             if not titles or titles[-1] != title:
                 titles.append(title)
                 cells.append({})
+                places.append({})
             rep = cells[-1].setdefault(author, seq)
             if rep != seq:
                 forest.union(rep, seq)
+            if locator:
+                place = places[-1].get(author)
+                if place is None:
+                    place = places[-1][author] = _Place()
+                place.add(locator)
         for i, title in enumerate(titles):
             people = list(cells[i].items())
+            where = places[i]
             for (a, ra), (b, rb) in itertools.combinations(people, 2):
-                if _authors_compatible(a, b, title, title):
+                if _authors_compatible(a, b, title, title, where.get(a), where.get(b)):
                     forest.union(ra, rb)
         for i, j, _ in _similar_pairs(titles, similarity, threads):
             for a, ra in cells[i].items():
                 for b, rb in cells[j].items():
-                    if _authors_compatible(a, b, titles[i], titles[j]):
+                    if _authors_compatible(a, b, titles[i], titles[j], places[i].get(a), places[j].get(b)):
                         forest.union(ra, rb)
 
 

@@ -16,12 +16,20 @@ _NON_ALNUM = re.compile(r"[^0-9a-z]+")
 _STOP = frozenset("a an the of on in and for to with from by la le les der die das und de des du".split())
 
 
+_NON_ASCII = re.compile(r"[^\x00-\x7f]+")
+
+
+def _without_marks(run: re.Match) -> str:
+    return "".join(ch for ch in run.group() if not unicodedata.combining(ch))
+
+
 def fold(text: str) -> str:
     """Lower-case ASCII letters and digits separated by single spaces."""
     if text.isascii():
         return _NON_ALNUM.sub(" ", text.lower()).strip()
     text = unicodedata.normalize("NFKD", text)
-    text = "".join(ch for ch in text if not unicodedata.combining(ch))
+    # drop the combining marks; only the non-ASCII runs need looking at, char by char
+    text = _NON_ASCII.sub(_without_marks, text)
     text = text.lower().replace("ß", "ss")
     return _NON_ALNUM.sub(" ", text).strip()
 
@@ -34,7 +42,12 @@ def title_prefix(title: str | None, words: int = 3) -> str:
     """The first few significant words: a second, author-free blocking key."""
     if not title:
         return ""
-    tokens = [t for t in title_key(title).split() if t not in _STOP]
+    return prefix_of_key(title_key(title), words)
+
+
+def prefix_of_key(key: str, words: int = 3) -> str:
+    """:func:`title_prefix` from an already computed :func:`title_key`."""
+    tokens = [t for t in key.split() if t not in _STOP]
     return " ".join(tokens[:words])
 
 
@@ -62,6 +75,19 @@ def identifier_keys(ref) -> list[str]:
                 value = _ARXIV_VERSION.sub("", value)
             out.add(f"{ident.scheme}:{value}")
     return sorted(out)
+
+
+def locator(ref) -> str:
+    """``volume|first page`` (folded; either may be empty): where in its venue a work is.
+
+    A second signal for the duplicate rule that lets a long, near-identical
+    title outweigh different authors (see :mod:`normform.batch.clusters`).
+    """
+    volume = fold(ref.volume) if ref.volume else ""
+    pages = ref.pages
+    first = (pages.first or pages.article or "") if pages is not None else ""
+    first = fold(first) if first else ""
+    return f"{volume}|{first}" if volume or first else ""
 
 
 def text_key(text: str, ref) -> str:

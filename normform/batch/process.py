@@ -34,9 +34,20 @@ class Settings:
     against: str | None = None     # curated library for the matcher step
 
 
+# One encoder for every call: ``json.dumps`` with keyword arguments builds a new
+# JSONEncoder each time, a good part of the cost of the many small values here.
+_ENCODER = json.JSONEncoder(ensure_ascii=False, sort_keys=True, separators=(",", ":"))
+_encode = _ENCODER.encode
+_encode_str = json.encoder.encode_basestring   # what JSONEncoder.encode does for a str
+
+
 def dumps(obj) -> str:
     """The one JSON spelling used in every output file (stable bytes)."""
-    return json.dumps(obj, ensure_ascii=False, sort_keys=True, separators=(",", ":"))
+    if obj.__class__ is str:
+        return _encode_str(obj)
+    if obj is None:
+        return "null"
+    return _encode(obj)
 
 
 _REVIEW_KEYS = ("confidence", "csl", "id", "origin", "reasons", "seq", "text")
@@ -69,8 +80,8 @@ def _present(ref) -> list[str]:
     return [name for name in FIELDS if have[name]]
 
 
-def _record_id(ref, seq: int) -> str:
-    author = keys.author_key(ref) or "anon"
+def _record_id(ref, seq: int, author: str | None = None) -> str:
+    author = (keys.author_key(ref) if author is None else author) or "anon"
     return f"{author[:24]}{ref.year or ''}-{seq}"
 
 
@@ -91,12 +102,49 @@ def _round(x: float | None) -> float | None:
     return None if x is None else round(float(x), 4)
 
 
-def process_ref(item: Item, seq: int, settings: Settings, kit) -> dict:
-    reasons: list[str] = []
+def _parse_one(item: Item, kit):
+    """The item's Reference, or the exception its parsing raised."""
     try:
-        ref = _structured(item.text) if item.flag("structured") else kit.parse(item.text)
+        return _structured(item.text) if item.flag("structured") else kit.parse(item.text)
     except Exception as exc:  # the parser failing on one line must not stop the batch
-        reasons.append(f"parser error: {type(exc).__name__}: {exc}")
+        return exc
+
+
+def _batchable(item: Item) -> bool:
+    # parse_references strips a line end that parse_reference keeps in the raw text
+    return item.what == "ref" and not item.flag("structured") and not item.text.endswith(("\n", "\r"))
+
+
+def parse_items(items: list[Item], kit) -> list:
+    """Reference (or the exception raised) per item, None for formula items.
+
+    The plain-text items of a chunk go to the parser in one ``parse_many``
+    call (one batched decode); when that call fails, each of them is parsed
+    on its own so that one bad line costs only its own record.
+    """
+    out: list = [None] * len(items)
+    batch = [i for i, item in enumerate(items) if _batchable(item)]
+    if batch:
+        try:
+            parsed = kit.parse_all([items[i].text for i in batch])
+            if len(parsed) != len(batch):
+                raise ValueError(f"parse_many gave {len(parsed)} records for {len(batch)} texts")
+        except Exception:
+            parsed = [_parse_one(items[i], kit) for i in batch]
+        for i, ref in zip(batch, parsed):
+            out[i] = ref
+    for i, item in enumerate(items):
+        if item.what == "ref" and out[i] is None:
+            out[i] = _parse_one(item, kit)
+    return out
+
+
+def process_ref(item: Item, seq: int, settings: Settings, kit, parsed=None) -> dict:
+    """One reference item's outputs; ``parsed`` is its Reference (or parse exception) when known."""
+    reasons: list[str] = []
+    ref = _parse_one(item, kit) if parsed is None else parsed
+    if isinstance(ref, BaseException):
+        reasons.append(f"parser error: {type(ref).__name__}: {ref}")
         ref = _fallback_ref(item.text)
     matched = None
     if settings.against and kit.match is not None:
@@ -106,7 +154,8 @@ def process_ref(item: Item, seq: int, settings: Settings, kit) -> dict:
         except Exception as exc:
             reasons.append(f"matcher error: {type(exc).__name__}: {exc}")
 
-    rid = _record_id(ref, seq)
+    author = keys.author_key(ref)
+    rid = _record_id(ref, seq, author)
     origin = f"{item.file}:{item.line}" if item.line is not None else item.file
     if item.entry:
         origin = f"{origin} ({item.entry})"
@@ -159,30 +208,31 @@ def process_ref(item: Item, seq: int, settings: Settings, kit) -> dict:
 
     flags = {k: v for k, v in item.flags}
     needs_review = bool(reasons)
-    origin_obj = {"file": item.file, "line": item.line, "entry": item.entry, "index": item.index}
     # Each value is serialised once; the record, review and cluster-member
     # lines are joined from the same pieces (same bytes as dumps() of each dict).
-    piece = {"id": dumps(rid), "seq": str(seq), "origin": dumps(origin_obj), "text": dumps(item.text),
+    file, line_no, entry = dumps(item.file), dumps(item.line), dumps(item.entry)
+    origin_json = f'{{"entry":{entry},"file":{file},"index":{dumps(item.index)},"line":{line_no}}}'
+    piece = {"id": dumps(rid), "seq": str(seq), "origin": origin_json, "text": dumps(item.text),
              "confidence": dumps(confidence), "kind": dumps(ref.kind.value), "csl": dumps(csl),
-             "house": dumps(house), "needs_review": dumps(needs_review), "reasons": dumps(reasons)}
+             "house": dumps(house), "needs_review": "true" if needs_review else "false",
+             "reasons": dumps(reasons)}
     if flags:
         piece["flags"] = dumps(flags)
     if matched is not None:
         piece["library"] = dumps(matched)
     line = _joined(piece, piece)
     review = _joined(piece, _REVIEW_KEYS) if needs_review else None
-    member = _joined({**piece, "file": dumps(item.file), "line": dumps(item.line),
-                      "entry": dumps(item.entry)}, _MEMBER_KEYS)
+    piece.update(file=file, line=line_no, entry=entry)
+    member = _joined(piece, _MEMBER_KEYS)
     # Lines the parser calls junk, and bare titles with no author, year or
     # identifier ("REFS CONT'D ON NEXT PAGE"), take no part in duplicate clustering.
     clusterable = ((confidence is None or confidence >= JUNK_CONFIDENCE)
                    and bool(ref.authors or ref.editors or ref.year or ref.identifiers))
     present = _present(ref)
+    title_key = keys.title_key(ref.title) if clusterable else ""
     out = {
         "what": "ref", "record": line, "bib": bib, "review": review, "member": member,
-        "key": [keys.author_key(ref) if clusterable else "", ref.year,
-                keys.title_key(ref.title) if clusterable else "",
-                keys.title_prefix(ref.title) if clusterable else "",
+        "key": [author if clusterable else "", ref.year, title_key, keys.prefix_of_key(title_key),
                 confidence if confidence is not None else 0.0, len(present)],
         "stat": {"kind": ref.kind.value, "fields": present, "confidence": confidence,
                  "ids": [[i.scheme, bool(i.valid)] for i in ref.identifiers],
@@ -190,6 +240,7 @@ def process_ref(item: Item, seq: int, settings: Settings, kit) -> dict:
                  "error": any(r.startswith(("parser error", "CSL-JSON export", "BibTeX export")) for r in reasons),
                  "review": needs_review},
         "textkey": keys.text_key(item.text, ref) if clusterable else "",
+        "locator": keys.locator(ref) if clusterable else "",
         "idkeys": keys.identifier_keys(ref),
         "row": None,
     }
@@ -221,19 +272,20 @@ def process_chunk(items: list[Item], first_seq: int, settings: Settings) -> dict
     from normform.batch import stats
 
     kit = load(settings.toolkit)
+    parsed = parse_items(items, kit)
     parts: dict[str, list[str]] = {name: [] for name in PART_NAMES}
     key_rows: list[tuple] = []
     id_rows: list[tuple] = []
     totals = stats.empty()
     rec_off = mem_off = 0
     seq = first_seq
-    for item in items:
+    for item, ref in zip(items, parsed):
         if item.what != "ref":
             result = process_formula(item, settings, kit)
             stats.add(totals, result)
             parts["formulas"].append(result["row"])
             continue
-        result = process_ref(item, seq, settings, kit)
+        result = process_ref(item, seq, settings, kit, ref)
         stats.add(totals, result)
         record = result["record"] + "\n"
         member = result["member"] + "\n"
@@ -247,7 +299,7 @@ def process_chunk(items: list[Item], first_seq: int, settings: Settings) -> dict
             parts["rows"].append(result["row"])
         author, year, title, prefix, conf, nfields = result["key"]
         key_rows.append((seq, author, year, title, prefix, result["textkey"], conf, nfields,
-                         rec_off, rec_len, mem_off, mem_len))
+                         rec_off, rec_len, mem_off, mem_len, result["locator"]))
         id_rows.extend((seq, ident) for ident in result["idkeys"])
         rec_off += rec_len
         mem_off += mem_len
@@ -264,6 +316,14 @@ def process_chunk(items: list[Item], first_seq: int, settings: Settings) -> dict
 # the normform caches (pure memoisation: results do not change, only warm-up
 # is repeated), so memory stays flat in the input size.
 CACHE_BUDGET_MB = 100
+# Emptied caches hand their memory back to Python's allocator, not to the
+# system: resident memory stays near the budget and refilling the caches
+# reuses it.  So after emptying them a worker waits until it has grown this
+# much more before emptying them again -- otherwise, once over the budget,
+# it emptied them after every chunk and ran with cold caches from then on.
+# None: empty them whenever over the budget.
+CACHE_HEADROOM_MB: float | None = 10
+_floor_mb: float | None = None      # resident memory right after the last emptying
 
 
 def _resident_mb() -> float | None:
@@ -275,9 +335,16 @@ def _resident_mb() -> float | None:
 
 
 def bound_caches(budget_mb: float | None = None) -> int:
-    """Empty every ``functools.lru_cache`` in normform modules when over ``budget_mb``; returns how many."""
+    """Empty every memo ``functools.lru_cache`` in normform modules when over ``budget_mb``
+    (default: the budget, with the headroom after an emptying); returns how many."""
+    global _floor_mb
     resident = _resident_mb()
-    if resident is None or resident <= (CACHE_BUDGET_MB if budget_mb is None else budget_mb):
+    if resident is None:
+        return 0
+    limit = CACHE_BUDGET_MB if budget_mb is None else budget_mb
+    if budget_mb is None and CACHE_HEADROOM_MB is not None and _floor_mb is not None:
+        limit = max(limit, _floor_mb + CACHE_HEADROOM_MB)
+    if resident <= limit:
         return 0
     cleared = 0
     for name, module in list(sys.modules.items()):
@@ -285,9 +352,24 @@ def bound_caches(budget_mb: float | None = None) -> int:
             continue
         for value in list(vars(module).values()):
             if callable(getattr(value, "cache_clear", None)) and hasattr(value, "cache_info"):
+                if not _memo_cache(value):
+                    continue
                 value.cache_clear()
                 cleared += 1
+    _floor_mb = _resident_mb()
     return cleared
+
+
+def _memo_cache(cached) -> bool:
+    """A per-string memo that grows with the input, not a loader of one model/grammar/encoder.
+
+    Loaders (``maxsize`` None or a handful) hold a few fixed objects; emptying
+    them would only rebuild those (grammars, the CRF's attribute set, the
+    toolkit) after every chunk once a worker sits above the budget.
+    """
+    params = getattr(cached, "cache_parameters", None)
+    maxsize = params().get("maxsize") if callable(params) else 1 << 30
+    return maxsize is not None and maxsize > 64
 
 
 # part files a chunk appends to (see normform.batch.store)

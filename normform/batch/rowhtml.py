@@ -18,16 +18,28 @@ from rapidfuzz.distance import Indel
 _TOKEN = re.compile(r"\w+|\s+|[^\w\s]", re.UNICODE)
 
 
+_HTML_SPECIAL = re.compile(r"[&<>\"']")
+
+
+def _plain(text: str) -> str:
+    return text
+
+
 def diff_html(original: str, cleaned: str) -> tuple[str, str]:
     a, b = _TOKEN.findall(original), _TOKEN.findall(cleaned)
+    # escape only a side that has something to escape (most lines have none)
+    esc_a = escape if _HTML_SPECIAL.search(original) else _plain
+    esc_b = escape if _HTML_SPECIAL.search(cleaned) else _plain
     left: list[str] = []
     right: list[str] = []
     for op, i1, i2, j1, j2 in Indel.opcodes(a, b):
-        old, new = escape("".join(a[i1:i2])), escape("".join(b[j1:j2]))
-        if op == "equal":
+        if op == "equal":   # the same tokens on both sides
+            same = "".join(a[i1:i2])
+            old = esc_a(same)
             left.append(old)
-            right.append(new)
+            right.append(old if esc_a is esc_b else esc_b(same))
             continue
+        old, new = esc_a("".join(a[i1:i2])), esc_b("".join(b[j1:j2]))
         if old:
             left.append(f"<del>{old}</del>")
         if new:

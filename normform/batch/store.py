@@ -24,7 +24,7 @@ from pathlib import Path
 
 WORK = ".normform-work"
 PARTS = ("records", "bib", "review", "rows", "formulas", "members")
-VERSION = 2   # 2: chunks arrive packed; a "members" part (cluster member lines)
+VERSION = 3   # 2: chunks arrive packed; a "members" part (cluster member lines); 3: keys.locator
 
 
 class ResumeError(Exception):
@@ -95,8 +95,8 @@ class Store:
             if blob:
                 self.files[name].write(blob)
         key_rows = [(seq, author, year, title, prefix, textkey, conf, nfields,
-                     base_rec + roff, rlen, base_mem + moff, mlen)
-                    for seq, author, year, title, prefix, textkey, conf, nfields, roff, rlen, moff, mlen
+                     base_rec + roff, rlen, base_mem + moff, mlen, locator)
+                    for seq, author, year, title, prefix, textkey, conf, nfields, roff, rlen, moff, mlen, locator
                     in chunk["keys"]]
         stats.merge(totals, chunk["totals"])
         for handle in self.files.values():
@@ -107,7 +107,7 @@ class Store:
         self.state["totals"] = totals
         self.state["seconds"] = seconds
         with self.db:
-            self.db.executemany("INSERT INTO keys VALUES (?,?,?,?,?,?,?,?,?,?,?,?)", key_rows)
+            self.db.executemany("INSERT INTO keys VALUES (?,?,?,?,?,?,?,?,?,?,?,?,?)", key_rows)
             self.db.executemany("INSERT INTO ids VALUES (?,?)", chunk["ids"])
             self._save()
 
@@ -157,7 +157,7 @@ def _connect(path: Path) -> sqlite3.Connection:
     db.execute("CREATE TABLE IF NOT EXISTS state (k TEXT PRIMARY KEY, v TEXT)")
     db.execute("CREATE TABLE IF NOT EXISTS keys (seq INTEGER PRIMARY KEY, author TEXT, year INTEGER, "
                "title TEXT, prefix TEXT, textkey TEXT, conf REAL, nfields INTEGER, "
-               "offset INTEGER, length INTEGER, moff INTEGER, mlen INTEGER)")
+               "offset INTEGER, length INTEGER, moff INTEGER, mlen INTEGER, locator TEXT NOT NULL DEFAULT '')")
     db.execute("CREATE TABLE IF NOT EXISTS ids (seq INTEGER, ident TEXT)")
     return db
 

@@ -12,7 +12,7 @@ from __future__ import annotations
 import importlib
 from dataclasses import dataclass
 from functools import lru_cache
-from typing import Any, Callable
+from typing import Any, Callable, Iterable
 
 DEFAULT = "normform.batch.toolkit:default"
 
@@ -27,6 +27,16 @@ class Toolkit:
     # Optional enrichment against a curated library:
     # (ref, library path) -> (ref, review notes, match summary dict)
     match: Callable[[Any, str], tuple[Any, list[str], dict]] | None = None
+    # [text] -> [Reference], same records as ``parse`` one by one; the real parser
+    # decodes a whole chunk in one batch.  None: ``parse`` mapped over the texts
+    # (resolved at call time, so ``dataclasses.replace(kit, parse=...)`` stays consistent).
+    parse_many: Callable[[list[str]], Iterable[Any]] | None = None
+
+    def parse_all(self, texts: list[str]) -> list:
+        """The records of ``texts``, through ``parse_many`` when there is one."""
+        if self.parse_many is None:
+            return [self.parse(text) for text in texts]
+        return list(self.parse_many(texts))
 
 
 def default() -> Toolkit:
@@ -47,7 +57,8 @@ def default() -> Toolkit:
     from normform.batch import against
 
     return Toolkit(parse=normform.parse_reference, csl=csl.record, bibtex=bib.dumps,
-                   house=house.format, formula=formula, match=against.match)
+                   house=house.format, formula=formula, match=against.match,
+                   parse_many=lambda texts: list(normform.parse_references(texts)))
 
 
 @lru_cache(maxsize=8)

@@ -15,13 +15,14 @@ from __future__ import annotations
 import json
 import re
 from dataclasses import dataclass
+from functools import lru_cache
 from typing import Iterable
 
 from normform import capitals
 from normform.export.base import Exporter, KeyMaker
 from normform.ids import isbn as _isbn, issn as _issn
 from normform.model import Date, Kind, Reference
-from normform.names import format_names
+from normform.names import format_name
 from normform.readers.bibtex import MASTERS, VERBATIM
 from normform.texconv import protect_literal_braces, to_latex
 
@@ -44,12 +45,53 @@ class Field:
         return f"{self.name} = {self.value}" if self.macro else f"{self.name} = {{{self.value}}}"
 
 
+_JSON_STR = json.encoder.encode_basestring             # json.dumps(str) ...
+_JSON_STR_ASCII = json.encoder.encode_basestring_ascii  # ... and with ensure_ascii
+_FOLDED_BLANK = re.compile(r"[^\S ]")
+_EDGE_OR_DOUBLE_SPACE = re.compile(r" (?= )|^ | $")
+
+
 def encode_verbatim(text: str, ascii: bool = False) -> str:
     """JSON-style escaping that survives BibTeX's brace counting and blank folding."""
-    out = json.dumps(text, ensure_ascii=ascii)[1:-1]
-    out = out.replace("{", "\\u007b").replace("}", "\\u007d")
-    out = re.sub(r"[^\S ]", lambda m: f"\\u{ord(m.group()):04x}", out)  # blanks BibTeX would fold
-    return re.sub(r" (?= )|^ | $", r"\\u0020", out)
+    out = (_JSON_STR_ASCII if ascii else _JSON_STR)(text)[1:-1]
+    if "{" in out or "}" in out:
+        out = out.replace("{", "\\u007b").replace("}", "\\u007d")
+    if not out.isascii():   # JSON escaped every ASCII blank but the space already
+        out = _FOLDED_BLANK.sub(lambda m: f"\\u{ord(m.group()):04x}", out)  # blanks BibTeX would fold
+    if "  " in out or out.startswith(" ") or out.endswith(" "):
+        out = _EDGE_OR_DOUBLE_SPACE.sub(r"\\u0020", out)
+    return out
+
+
+# Memoised per distinct string: venues, publishers, places, names and titles
+# repeat across a collection.  (Bounded; a batch worker empties them when
+# its memory budget is reached.)
+@lru_cache(maxsize=1 << 16)
+def _tex(text: str, ascii: bool) -> str:
+    return to_latex(text, ascii)
+
+
+@lru_cache(maxsize=1 << 16)
+def _name_tex(name, ascii: bool) -> str:
+    return format_name(name, ascii)
+
+
+def _names_tex(names, ascii: bool) -> str:
+    return " and ".join([_name_tex(n, ascii) for n in names])
+
+
+@lru_cache(maxsize=1 << 15)
+def _title_tex(title: str, hints: tuple[str, ...], ascii: bool) -> str:
+    out, pos = [], 0
+    for start, end in capitals.intervals(title, hints):
+        out.append(_tex(title[pos:start], ascii))
+        inner = _tex(title[start:end], ascii)
+        # A group opening with a command is a BibTeX "special character", not a
+        # protection: an empty group in front keeps it a protection.
+        out.append("{" + ("{}" if inner.startswith("\\") else "") + inner + "}")
+        pos = end
+    out.append(_tex(title[pos:], ascii))
+    return "".join(out)
 
 
 def urldate(date: Date) -> str:
@@ -74,19 +116,10 @@ class BibtexExporter(Exporter):
 
     # -- pieces --------------------------------------------------------------
     def tex(self, text: str) -> str:
-        return to_latex(text, self.ascii)
+        return _tex(text, self.ascii)
 
     def title(self, title: str, hints: tuple[str, ...]) -> str:
-        out, pos = [], 0
-        for start, end in capitals.intervals(title, hints):
-            out.append(self.tex(title[pos:start]))
-            inner = self.tex(title[start:end])
-            # A group opening with a command is a BibTeX "special character", not a
-            # protection: an empty group in front keeps it a protection.
-            out.append("{" + ("{}" if inner.startswith("\\") else "") + inner + "}")
-            pos = end
-        out.append(self.tex(title[pos:]))
-        return "".join(out)
+        return _title_tex(title, tuple(hints), self.ascii)
 
     def entry_type(self, ref: Reference) -> str:
         wanted = ref.extra_value("entrytype")
@@ -98,17 +131,23 @@ class BibtexExporter(Exporter):
 
     def fields(self, ref: Reference) -> list[Field]:
         """The fields of ``ref`` in the stable order, as TeX."""
-        out: list[Field] = []
+        return [Field(*spec) for spec in self._specs(ref)]
 
-        def add(name: str, value: str | None, tex: bool = True) -> None:
+    def _specs(self, ref: Reference) -> list[tuple]:
+        """(name, TeX value[, macro]) of each field: :meth:`fields` without the objects."""
+        out: list[tuple] = []
+        ascii = self.ascii
+        tex = self.tex
+
+        def add(name: str, value: str | None) -> None:
             if value:
-                out.append(Field(name, self.tex(value) if tex else value))
+                out.append((name, tex(value)))
 
         for role, people in (("author", ref.authors), ("editor", ref.editors), ("translator", ref.translators)):
             if people:
-                out.append(Field(role, format_names(people, self.ascii)))
+                out.append((role, _names_tex(people, ascii)))
         if ref.title:
-            out.append(Field("title", self.title(ref.title, ref.title_protected)))
+            out.append(("title", _title_tex(ref.title, tuple(ref.title_protected), ascii)))
         article = ref.kind is Kind.ARTICLE
         add("journal" if article else "booktitle", ref.container_title)
         add("series", ref.series)
@@ -128,8 +167,8 @@ class BibtexExporter(Exporter):
         if ref.pages:
             p = ref.pages
             if p.first or p.last:
-                rng = f"{self.tex(p.first or '')}--{self.tex(p.last)}" if p.last else self.tex(p.first or "")
-                out.append(Field("pages", rng))
+                rng = f"{tex(p.first or '')}--{tex(p.last)}" if p.last else tex(p.first or "")
+                out.append(("pages", rng))
             add("eid", p.article)
             add("pagetotal", p.count)
         add("edition", ref.edition)
@@ -146,7 +185,7 @@ class BibtexExporter(Exporter):
             elif d.literal:
                 add("year", d.literal)
             if d.month:
-                out.append(Field("month", MONTH_MACROS[d.month - 1], macro=True))
+                out.append(("month", MONTH_MACROS[d.month - 1], True))
             elif d.season:
                 add("month", d.season)
             if d.day:
@@ -162,52 +201,57 @@ class BibtexExporter(Exporter):
         for name, value in ref.extra:
             if name in skip:
                 continue
-            out.append(Field(name, protect_literal_braces(value) if name in VERBATIM else self.tex(value)))
+            out.append((name, protect_literal_braces(value) if name in VERBATIM else tex(value)))
         if self.provenance and ref.provenance is not None:
             prov = ref.provenance
             if prov.raw is not None:
-                out.append(Field("normform-raw", encode_verbatim(prov.raw, self.ascii)))
+                out.append(("normform-raw", encode_verbatim(prov.raw, self.ascii)))
             if prov.confidence is not None:
-                out.append(Field("normform-confidence", repr(prov.confidence)))
+                out.append(("normform-confidence", repr(prov.confidence)))
             if prov.fields:
                 spec = "; ".join(f"{i.field}={i.confidence!r}" + (f"@{i.span.start}-{i.span.end}" if i.span else "")
                                  for i in prov.fields)
-                out.append(Field("normform-fields", encode_verbatim(spec, self.ascii)))
+                out.append(("normform-fields", encode_verbatim(spec, self.ascii)))
             if prov.origin:
-                out.append(Field("normform-origin", self.tex(prov.origin)))
+                out.append(("normform-origin", tex(prov.origin)))
         return out
 
-    def _identifiers(self, ref: Reference, out: list[Field]) -> None:
-        def values(scheme: str) -> list:
-            return list(ref.idents(scheme))
+    def _identifiers(self, ref: Reference, out: list[tuple]) -> None:
+        by_scheme: dict[str, list] = {}
+        for ident in ref.identifiers:
+            by_scheme.setdefault(ident.scheme, []).append(ident)
+        values = by_scheme.get
+        tex = self.tex
 
         if dois := values("doi"):
-            out.append(Field("doi", protect_literal_braces(" ".join(i.value for i in dois))))
+            out.append(("doi", protect_literal_braces(" ".join(i.value for i in dois))))
         if arx := values("arxiv"):
-            out.append(Field("eprint", " ".join(i.value for i in arx)))
-            out.append(Field("archiveprefix", "arXiv"))
+            out.append(("eprint", " ".join(i.value for i in arx)))
+            out.append(("archiveprefix", "arXiv"))
             if arx[0].detail:
-                out.append(Field("primaryclass", self.tex(arx[0].detail)))
+                out.append(("primaryclass", tex(arx[0].detail)))
         if isbns := values("isbn"):
-            out.append(Field("isbn", ", ".join(_isbn.format(i.value) if i.valid else self.tex(i.value)
+            out.append(("isbn", ", ".join(_isbn.format(i.value) if i.valid else tex(i.value)
                                                for i in isbns)))
         if issns := values("issn"):
-            out.append(Field("issn", ", ".join(_issn.format(i.value) if i.valid else self.tex(i.value)
+            out.append(("issn", ", ".join(_issn.format(i.value) if i.valid else tex(i.value)
                                                for i in issns)))
         if mrs := values("mr"):
-            out.append(Field("mrnumber", ", ".join(
-                self.tex(i.value + (f" ({i.detail})" if i.detail else "")) for i in mrs)))
+            out.append(("mrnumber", ", ".join(
+                tex(i.value + (f" ({i.detail})" if i.detail else "")) for i in mrs)))
         if zbls := values("zbl"):
-            out.append(Field("zbl", ", ".join(self.tex(i.value) for i in zbls)))
+            out.append(("zbl", ", ".join(tex(i.value) for i in zbls)))
         if hdls := values("handle"):
-            out.append(Field("hdl", protect_literal_braces(" ".join(i.value for i in hdls))))
+            out.append(("hdl", protect_literal_braces(" ".join(i.value for i in hdls))))
         if urls := values("url"):
-            out.append(Field("url", protect_literal_braces(" ".join(i.value for i in urls))))
+            out.append(("url", protect_literal_braces(" ".join(i.value for i in urls))))
 
     # -- whole entries -----------------------------------------------------------
     def entry(self, ref: Reference, key: str | None = None) -> str:
         key = key or ref.key or KeyMaker().make(ref)
-        body = ",\n".join("  " + f.render() for f in self.fields(ref))
+        # Field.render, inlined
+        body = ",\n".join([f"  {spec[0]} = {spec[1]}" if len(spec) > 2 else f"  {spec[0]} = {{{spec[1]}}}"
+                            for spec in self._specs(ref)])
         return f"@{self.entry_type(ref)}{{{key},\n{body}\n}}\n" if body else f"@{self.entry_type(ref)}{{{key}}}\n"
 
     record = entry

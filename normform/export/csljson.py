@@ -58,6 +58,16 @@ def csl_date(date: Date) -> dict:
     return out
 
 
+# (CSL variable, scheme, separator, how a value is shown), in output order
+_ITEM_IDS = (
+    ("DOI", "doi", " ", lambda i: i.value),
+    ("ISBN", "isbn", ", ", lambda i: _isbn.format(i.value) if i.valid else i.value),
+    ("ISSN", "issn", ", ", lambda i: _issn.format(i.value) if i.valid else i.value),
+    ("URL", "url", " ", lambda i: i.value),
+)
+_CUSTOM_IDS = ("arxiv", "mr", "zbl", "handle")   # custom key = scheme
+
+
 class CslJsonExporter(Exporter):
     name = "csl-json"
     suffix = ".json"
@@ -130,27 +140,23 @@ class CslJsonExporter(Exporter):
         return item
 
     def _identifiers(self, ref: Reference, item: dict, custom: dict) -> None:
-        def join(scheme: str, sep: str, show=lambda i: i.value) -> str | None:
-            found = ref.idents(scheme)
-            return sep.join(show(i) for i in found) if found else None
-
-        for var, scheme, sep, show in (
-            ("DOI", "doi", " ", lambda i: i.value),
-            ("ISBN", "isbn", ", ", lambda i: _isbn.format(i.value) if i.valid else i.value),
-            ("ISSN", "issn", ", ", lambda i: _issn.format(i.value) if i.valid else i.value),
-            ("URL", "url", " ", lambda i: i.value),
-        ):
-            value = join(scheme, sep, show)
-            if value is not None:
-                item[var] = value
-        for key, scheme in (("arxiv", "arxiv"), ("mr", "mr"), ("zbl", "zbl"), ("handle", "handle")):
-            value = join(scheme, ", ")
-            if value is not None:
-                custom[key] = value
-        arx = ref.idents("arxiv")
+        if not ref.identifiers:
+            return
+        by_scheme: dict[str, list] = {}   # one pass instead of one ref.idents() per scheme
+        for ident in ref.identifiers:
+            by_scheme.setdefault(ident.scheme, []).append(ident)
+        for var, scheme, sep, show in _ITEM_IDS:
+            found = by_scheme.get(scheme)
+            if found:
+                item[var] = sep.join(show(i) for i in found)
+        for key in _CUSTOM_IDS:
+            found = by_scheme.get(key)
+            if found:
+                custom[key] = ", ".join(i.value for i in found)
+        arx = by_scheme.get("arxiv")
         if arx and arx[0].detail:
             custom["arxiv_class"] = arx[0].detail
-        reviews = [i.detail or "" for i in ref.idents("mr")]
+        reviews = [i.detail or "" for i in by_scheme.get("mr", ())]
         if any(reviews):
             custom["mr_review"] = ", ".join(reviews)
 

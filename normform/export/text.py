@@ -20,6 +20,7 @@ docs/io.md):
 from __future__ import annotations
 
 import re
+from functools import lru_cache
 from typing import Iterable
 
 from normform.export.base import Exporter
@@ -36,6 +37,7 @@ def initials(given: str) -> str:
     return " ".join(out)
 
 
+@lru_cache(maxsize=1 << 16)   # memo per distinct name: authors recur across a collection
 def short_name(name: Name) -> str:
     if name.literal is not None:
         return name.literal
@@ -44,21 +46,29 @@ def short_name(name: Name) -> str:
     return f"{head}, {name.suffix}" if name.suffix else head
 
 
+_OTHERS = Name(literal="others")
+
+
 def name_list(names: tuple[Name, ...]) -> str:
     shown = [short_name(n) for n in names]
-    if len(shown) > 1 and names[-1] == Name(literal="others"):  # BibTeX "and others"
+    if len(shown) > 1 and names[-1] == _OTHERS:  # BibTeX "and others"
         return ", ".join(shown[:-1]) + " et al."
     if len(shown) <= 1:
         return "".join(shown)
     return ", ".join(shown[:-1]) + " and " + shown[-1]
 
 
+_DIGITS = re.compile(r"\d+")
+_SAYS_EDITION = re.compile(r"\bed\b|edn\b|edition|aufl|éd", re.IGNORECASE)
+_SAYS_VERSION = re.compile(r"(?i)v(?:er(?:sion)?)?\b|v\d")
+
+
 def _edition(edition: str) -> str:
     """``2`` -> ``ed. 2``; a bare ordinal (``2nd``, ``second``) gets ``ed.`` after it so
     it does not read as a stray word; text that already says edition is kept."""
-    if re.fullmatch(r"\d+", edition):
+    if _DIGITS.fullmatch(edition):
         return f"ed. {edition}"
-    if re.search(r"\bed\b|edn\b|edition|aufl|éd", edition, re.IGNORECASE):
+    if _SAYS_EDITION.search(edition):
         return edition
     return f"{edition} ed."
 
@@ -83,7 +93,7 @@ def number_text(number: str) -> str:
 
 def version_text(version: str) -> str:
     """``2.1`` -> ``version 2.1``; text that already says version is kept."""
-    return version if re.match(r"(?i)v(?:er(?:sion)?)?\b|v\d", version) else f"version {version}"
+    return version if _SAYS_VERSION.match(version) else f"version {version}"
 
 
 def _range(first: str | None, last: str | None) -> str | None:
@@ -157,22 +167,28 @@ class HouseStyle(Exporter):
         return out
 
     def identifiers(self, ref: Reference) -> list[str]:
-        out = []
-        for i in ref.idents("doi"):
+        out: list[str] = []
+        if not ref.identifiers:
+            return out
+        by_scheme: dict[str, list] = {}   # one pass instead of one ref.idents() per scheme
+        for ident in ref.identifiers:
+            by_scheme.setdefault(ident.scheme, []).append(ident)
+        get = by_scheme.get
+        for i in get("doi", ()):
             out.append("doi:" + i.value)
-        for i in ref.idents("arxiv"):
+        for i in get("arxiv", ()):
             out.append(arxiv.format(i.value) + (f" [{i.detail}]" if i.detail else ""))
-        for i in ref.idents("mr"):
+        for i in get("mr", ()):
             out.append(mr.format(i.value))
-        for i in ref.idents("zbl"):
+        for i in get("zbl", ()):
             out.append(zbl.format(i.value))
-        if not ref.idents("doi"):
-            for i in ref.idents("isbn"):
+        if "doi" not in by_scheme:
+            for i in get("isbn", ()):
                 out.append("ISBN " + (isbn.format(i.value) if i.valid else i.value))
-        for i in ref.idents("handle"):
+        for i in get("handle", ()):
             out.append("hdl:" + i.value)
-        if not (ref.idents("doi") or ref.idents("arxiv")):
-            out += [i.value for i in ref.idents("url")]
+        if not ("doi" in by_scheme or "arxiv" in by_scheme):
+            out += [i.value for i in get("url", ())]
         return out
 
     def format(self, ref: Reference) -> str:
