@@ -170,9 +170,11 @@ def process_ref(item: Item, seq: int, settings: Settings, kit, parsed=None) -> d
         reasons.append("parser gave no confidence")
     elif confidence < settings.threshold:
         reasons.append(f"confidence {confidence:.2f} below threshold {settings.threshold:g}")
-    for info in ref.provenance.fields:
-        if info.confidence < settings.threshold:
-            reasons.append(f"low confidence in {info.field} ({info.confidence:.2f})")
+        # the weak fields say where to look; on their own they send nothing
+        # to review (the record confidence already accounts for them)
+        for info in ref.provenance.fields:
+            if info.confidence < settings.threshold:
+                reasons.append(f"low confidence in {info.field} ({info.confidence:.2f})")
     bad_ids = [f"{i.scheme}:{i.value}" for i in ref.identifiers if not i.valid]
     reasons.extend(f"invalid identifier {b}" for b in bad_ids)
     if item.flag("invalid_utf8") is not None:
