@@ -77,9 +77,13 @@ def _latex():
 _COMPANY_TAIL = re.compile(r"(?:,?\s?(?:Inc\.|Ltd\.|Co\.|GmbH|S\.\s?A\.|and Co\.|& Co\.|& Cie|Corp\.|LLC|KG))+")
 _ACRONYM_TAIL = re.compile(r" \([A-Z][A-Za-z]{1,7}\)(?=[,.;]|\Z)")
 _IN_BEFORE = re.compile(r"\b[Ii]n:?\s*\Z")
-_TITLE_VOL = re.compile(r"(?:,\s*|(?<=\w)\s+|\s*\()(?:[Vv]ol\.|[Vv]olume)\s*(?P<v>\d{1,4})\)?\Z")
+_TITLE_VOL = re.compile(r"(?:,\s*|(?<=\w)\s+|\s*\()(?:[Vv]ol\.|[Vv]olume|Band|Bd\.)\s*(?P<v>\d{1,4})\)?\Z")
 _CONTAINER_VOL = re.compile(r"(?<=[a-zA-Z.'])\s+(?P<v>\d{1,4})\Z")
 _ABBREVIATED = re.compile(r"\b[A-Z][a-z]{0,7}\.\s")
+# a closing tag (its ">" may be cut off with the run) or a whole opening tag;
+# "a<b" in a formula is neither
+_HTML_PIECE = re.compile(r"</[A-Za-z][A-Za-z0-9]{0,9}>?|<[A-Za-z][A-Za-z0-9]{0,9}(?:\s[^<>]{0,300})?>")
+_PLACE_ABBREV = frozenset("mass. calif. conn. ill. mich. ont. penn. wis. minn. fla. n.y. n.j. d.c. u.s.a. u.k.".split())
 _NEEDS_CLEAN = re.compile(r"[\\{}~$*_\t\n]|\s\s|,,|\.\.")
 
 
@@ -114,6 +118,9 @@ def _strip_field(field: str, text: str) -> str:
     for o, c in ("()", "[]"):
         if out.count(o) > out.count(c) and text.rstrip(" .,;:").endswith(c):
             out += c
+    if keep_dot and out and field == "place":
+        # a place keeps only a region's abbreviation dot ("Mass."), not the sentence's ("New York.")
+        keep_dot = out.rsplit(" ", 1)[-1].lower() + "." in _PLACE_ABBREV
     if keep_dot and out:
         words = out.split()
         last = words[-1] if words else ""
@@ -635,6 +642,19 @@ def _repair_author_edges(tokens: list[Token], labels: list[str], marg: list[floa
     return 1.0
 
 
+def _page_count_only(tokens: list[Token], labels: list[str]) -> bool:
+    """The only pages run is a page count: ``xii+253 pp.``, ``253 pp.``."""
+    i, e = _first_run(labels, "pages")
+    if "pages" in labels[e + 1:]:
+        return False
+    if any(t.text == "+" for t in tokens[i:e + 1]):
+        return True
+    if i == e and i >= 2 and (tokens[i - 1].text == "p." or tokens[i - 2].text == "p" and tokens[i - 1].text == ".") \
+            and "publisher" in labels:
+        return True     # "Springer, 2005, p. 45": the page cited in a book
+    return i == e and tokens[i].kind == "num" and e + 1 < len(tokens) and tokens[e + 1].text == "pp"
+
+
 def _repair_lone_container(tokens: list[Token], labels: list[str]) -> None:
     """A book record with one "container" run and no title, volume, issue or
     pages ("E. Vellum, ..., Solving Ordinary Ink Equations I,
@@ -643,6 +663,8 @@ def _repair_lone_container(tokens: list[Token], labels: list[str]) -> None:
     if "container_title" not in labels:
         return
     has = set(labels)
+    if "pages" in has and "title" not in has and _page_count_only(tokens, labels):
+        has.discard("pages")    # "xiv+420 pp.": a book's page count, not an article's range
     if "title" not in has and not has & {"volume", "issue", "pages", "editors"}:
         first = labels.index("container_title")
         if first > 0 and tokens[first - 1].text in ("In", "in") and (
@@ -830,8 +852,8 @@ def _repair_container_tail(tokens: list[Token], labels: list[str]) -> None:
             depth -= 1
         elif t.text == "." or t.kind == "dash" and t.start == tokens[x - 1].end:
             pass
-        elif t.kind in ("word", "initial") and t.text[:1].isupper():
-            words += 1
+        elif t.kind in ("word", "initial") and t.text[:1].isupper() and t.text not in rp.VOLUME_WORDS:
+            words += 1   # ("Band 301", "Vol 3": the volume's keyword, not the name's)
         elif t.kind == "num" and depth:
             pass
         else:
@@ -966,6 +988,10 @@ def _repair_authors_ate_title(tokens: list[Token], labels: list[str], marg: list
                     and not (k + 2 <= end and tokens[k + 2].text == ","):
                 cut, start = None, k + 1
                 break
+            if t.text in ("Jr", "Sr") and nxt.text == "." and k + 2 <= end and tokens[k - 1].text == "," \
+                    and tokens[k + 2].kind == "word" and tokens[k + 2].text[:1].isupper():
+                cut, start = k + 1, k + 2   # "Family, A. B., Jr. Title": the suffix closes the name
+                break
     else:
         piece = 0
         for k in range(end):
@@ -999,6 +1025,9 @@ _PROC_WORDS = frozenset("conference proceedings symposium workshop congress coll
 _CONTAINER_STOP = frozenset("volume Volume vol Vol vols Vols pages Pages page pp p edited eds Eds editors ed".split())
 _CONTAINER_STOP_LABELS = frozenset(("editors", "pages", "publisher", "series", "title", "authors", "series_number",
                                     "translators", "volume")) | frozenset("doi arxiv mr zbl isbn issn url handle".split())
+
+
+_EVENT_LABELS = frozenset(("place", "date"))
 
 
 def _repair_proceedings(tokens: list[Token], labels: list[str]) -> None:
@@ -1052,6 +1081,9 @@ def _repair_proceedings(tokens: list[Token], labels: list[str]) -> None:
         return
     if labels[stop] == "volume" or sum(1 for z in range(e + 1, y + 1) if tokens[z].text == ",") < 2:
         return   # "..., CPP 2019, pages": one acronym piece may be the meeting's short name, not the title's
+    if labels[y] == "date" and all(labels[z] in _EVENT_LABELS or tokens[z].text == ","
+                                   for z in range(e + 1, y + 1)):
+        return   # "Proceedings of ..., Moscow, 2000, pp.": the meeting's place and year, not its title
     for z in range(e + 1, y + 1):
         labels[z] = "container_title"
 
@@ -1261,9 +1293,25 @@ def _repairs(text: str, tokens: list[Token], labels: list[str], marg: list[float
         repair *= rp.repair_author_period(tokens, labels, marg)
         if "title" in labels:
             rp.repair_family_in_title(tokens, labels)
+    if labels and labels[0] == "authors" and "title" not in labels and len(tokens) > 4 \
+            and tokens[1].kind == "initial" and tokens[0].kind == "word":
+        repair *= rp.repair_vancouver_single(tokens, labels, marg)
     if labels and labels[0] == "authors":
+        if "," in words and not words.isdisjoint(rp._ORG_GATE):
+            rp.repair_corporate_author(tokens, labels)
+        if "," in words:
+            repair *= rp.repair_title_in_name_list(tokens, labels, marg)
         repair *= _repair_author_tail(tokens, labels, marg) * _repair_author_edges(tokens, labels, marg)
         repair *= _repair_authors_ate_title(tokens, labels, marg)
+    if not words.isdisjoint(rp.STATUS_GATE):
+        rp.repair_status_venue(tokens, labels)
+    if labels[0] == "authors" and "editors" in labels and "title" not in labels:
+        rp.repair_title_before_editors(tokens, labels)
+    if "container_title" not in labels and ("in" in words or "In" in words) and "title" in labels \
+            and ("pages" in labels or not words.isdisjoint(rp._PART_WORDS)):
+        rp.repair_part_in_book(tokens, labels)
+    if "editors" in labels and "container_title" not in labels and ("in" in words or "In" in words):
+        rp.repair_book_in_editors(tokens, labels)
     if "container_title" in labels:
         _repair_lone_container(tokens, labels)
     if "publisher" not in labels and "container_title" not in labels and "title" in labels and "," in words:
@@ -1321,18 +1369,41 @@ def _repairs(text: str, tokens: list[Token], labels: list[str], marg: list[float
         _repair_colon_pages(text, tokens, labels)
     if "container_title" not in labels and ("volume" in labels or "series_number" in labels):
         repair *= rp.repair_unlabeled_journal(tokens, labels)
+        if ";" in words and "date" in labels and "title" in labels and "container_title" not in labels:
+            rp.repair_vancouver_journal(tokens, labels)
+    elif "container_title" in labels and "title" in labels and "." in words:
+        rp.repair_abbreviation_into_title(tokens, labels)
     if "container_title" not in labels and ("series" in labels or "pages" in labels):
         repair *= rp.repair_in_book(tokens, labels)
     elif "container_title" in labels and "," in words:
         rp.repair_meeting_short_name(tokens, labels)
     if "volume" in labels and ("(" in words or ":" in words):
         rp.repair_volume_extras(tokens, labels)
+    if "container_title" in labels and ";" in words and "date" in labels:
+        rp.repair_series_letter(tokens, labels)
+    if "volume" in labels and "container_title" in labels and "place" not in labels \
+            and "container_title" in labels[labels.index("volume"):]:
+        rp.repair_place_after_volume(tokens, labels)
+    if "(" in words and "container_title" in labels and "publisher" in labels and "place" in labels:
+        rp.repair_event_bracket(tokens, labels)
+    if "container_title" in labels and not words.isdisjoint(rp.NUMBERING_GATE):
+        rp.repair_journal_numbering(tokens, labels)
+    if "pages" not in labels and "container_title" in labels and "date" in labels and "volume" in labels:
+        rp.repair_issue_as_pages(tokens, labels)
     if "container_title" in labels and "(" in words:
         rp.repair_journal_series_mark(tokens, labels)
     if "series" not in labels and not words.isdisjoint(_SERIES_GATE) \
             and ("publisher" in labels or "container_title" in labels):
         _repair_publisher_series(tokens, labels)
+    if "genre" in labels and "publisher" not in labels and "," in words:
+        rp.repair_genre_institution(tokens, labels)
+    if "genre" not in labels and not words.isdisjoint(rp.GENRE_GATE):
+        rp.repair_unlabeled_genre(tokens, labels)
+    if "publisher" in labels and "." in words and "container_title" not in labels:
+        rp.repair_abbreviated_publisher(tokens, labels)
     if "publisher" in labels:
+        if not words.isdisjoint(rp.DEPARTMENT_GATE):
+            rp.repair_department_publisher(tokens, labels)
         rp.repair_publisher_head(tokens, labels)
         if ";" in words:
             rp.repair_joint_imprint(tokens, labels)
@@ -1429,13 +1500,19 @@ def assemble(text: str, tokens: list[Token], labels: list[str], marg: list[float
             if any(lab in _IMPRINT for lab in labels[first.last + 1:best.first]):
                 best, rest = first, [r for r in runs["title"] if r is not first]
         value = _strip_field(field, clean_text(raw(best)))
+        if "</" in value or "<" in value and ">" in value:
+            # pasted web markup ("Quill sums</a"): the tags are no part of the field
+            value = _strip_field(field, _SPACES.sub(" ", _HTML_PIECE.sub(" ", value)))
+        if field == "edition" and "^" in value:
+            value = value.replace("^", "").replace("{", "").replace("}", "")   # "2^nd", "2^{nd}": a typed superscript
         if field == "edition" and value.isdigit():
             # "2nd": the tokenizer splits the ordinal suffix off
             tail = text[tokens[best.last].end:tokens[best.last].end + 2]
             if tail in ("st", "nd", "rd", "th"):
                 value += tail
         end = tokens[best.last].end
-        if field in _KEEP_DOT_FIELDS and text[end:end + 1] == "." and not value.endswith("."):
+        if field in _KEEP_DOT_FIELDS and text[end:end + 1] == "." and not value.endswith(".") and (
+                field != "place" or value.rsplit(" ", 1)[-1].lower() + "." in _PLACE_ABBREV):
             last = value.rsplit(" ", 1)[-1]
             if len(last) <= 4 and last[:1].isupper() or (last.lower() + ".") in lx.JOURNAL_WORDS \
                     or (_ABBREVIATED.search(value) and last.isalpha() and last[:1].isupper()):
@@ -1472,6 +1549,11 @@ def assemble(text: str, tokens: list[Token], labels: list[str], marg: list[float
                         value = value + " " + clean_text(raw(glued)).rstrip(" ,.;")
                         runs["place"] = [pr for pr in runs["place"] if pr is not glued]
                         values.pop("place", None)
+        if field == "title" and value.lower() in _STATUS_TITLES and not ("container_title" in runs
+                                                                          or "publisher" in runs):
+            notes.append(value)     # "A. B. Featherstone, Personal communication, 2010": no title at all
+            note_info("note", best)
+            continue
         if field == "title":
             value = value.rstrip(".")
             m = _NO_DATE.match(value)
@@ -1570,7 +1652,8 @@ def assemble(text: str, tokens: list[Token], labels: list[str], marg: list[float
         conf = prun.conf
         if pages is None:
             stripped = _strip_field("pages", ptxt)
-            pages = Pages(first=stripped) if stripped else None
+            # (a lone letter is no page: the "e" of "e-prints" read as one)
+            pages = Pages(first=stripped) if stripped and (len(stripped) > 1 or stripped.isdigit()) else None
             conf *= 0.6
         elif pages.first and pages.last and pages.first.isdigit() and pages.last.isdigit() \
                 and int(pages.last) < int(pages.first):
@@ -1609,6 +1692,9 @@ def assemble(text: str, tokens: list[Token], labels: list[str], marg: list[float
     # A "container" in a book-like record (publisher, no volume, issue, pages
     # or editors, not introduced by "In") is the book's series.
     crun, _ = _pick(runs, "container_title", longest=True)
+    if crun is not None and (_forthcoming_after(text, tokens[crun.last].end) or _STATUS_BEFORE.search(
+            text, max(0, tokens[crun.first].start - 16), tokens[crun.first].start)):
+        crun = None   # the journal of a paper still to come: no book's publisher or series
     if (crun is not None and values.get("container_title") and not values.get("publisher")
             and not any(values.get(k) for k in ("volume", "issue", "pages", "editors"))
             and (_publisher_score(values["container_title"].split()) > 0 or _ends_book(tokens, labels, crun))
@@ -1676,28 +1762,50 @@ def assemble(text: str, tokens: list[Token], labels: list[str], marg: list[float
 
 
 _IMPRINT = frozenset(("publisher", "container_title", "pages", "volume", "series"))
+_STATUS_TITLES = frozenset(("personal communication", "private communication", "personal communication.",
+                            "unpublished", "unpublished manuscript", "unpublished notes", "in preparation"))
+_FORTHCOMING = ("to appear", "in press", "forthcoming", "accepted", "submitted")
+_STATUS_BEFORE = re.compile(r"(?i)(?:submitted|forthcoming|appear|accepted)\s+(?:to|in|for|by):?\s*\Z")
+
+
+def _forthcoming_after(text: str, end: int) -> bool:
+    """"Trans. Amer. Math. Soc., to appear": a venue followed by a
+    forthcoming phrase is the journal an article will appear in, not a
+    book's publisher (no volume or pages yet is why it looks book-like)."""
+    return text[end:end + 16].lstrip(" .,;:([").lower().startswith(_FORTHCOMING)
 _IN_WORD = re.compile(r"(?:^|[.,]\s*)In[: ]")
+# "..., Chapter 3 in Handbook ..., CRC Press": a book's part (with its publisher)
+_IN_ANY = re.compile(r"[\d.,]\s*[Ii]n:?\s(?=[A-Z])(?!(?:Russian|English|French|German|Chinese|Japanese|Italian|"
+                     r"Spanish|Polish|Hungarian|Czech|Portuguese|Dutch|Ukrainian|Romanian)\b)")
+_IN_LOWER = re.compile(r"[.,]\s*in:?\s(?=[A-Z])")
+# "Proc. 12th Conf. ...", "Proc. Int. Congress": an abbreviated meeting, not
+# a society's journal ("Proc. Amer. Math. Soc.")
+_PROC_ABBR = re.compile(r"\d(?:st|nd|rd|th)\b|\b(?:Conf|Symp|Int|Internat|Colloq)\.")
 
 
 def _kind(text: str, v: dict, idents: list[Identifier], found: dict[str, str]) -> Kind:
     genre = v.get("genre") or ""
     if (genre and _THESIS.search(genre)) or (not v.get("container_title") and "thesis" in found):
         return Kind.THESIS
-    if "unpub" in found and not v.get("volume"):
+    if "unpub" in found and not v.get("volume") and not (
+            v.get("container_title") and found["unpub"] in _FORTHCOMING[:3]):
+        # (an accepted paper with its venue is that venue's article, still forthcoming)
         return Kind.UNPUBLISHED
     if "software" in found and not v.get("container_title"):
         return Kind.SOFTWARE
     container = v.get("container_title") or ""
     if container:
-        if v.get("editors") or _IN_WORD.search(text):
-            return Kind.PAPER if _PROC.search(container) else Kind.CHAPTER
-        if _PROC.search(container) and not v.get("volume"):
+        proc = _PROC.search(container) or "Proc." in container and _PROC_ABBR.search(container)
+        if v.get("editors") or _IN_WORD.search(text) or v.get("publisher") and _IN_ANY.search(text):
+            return Kind.PAPER if proc else Kind.CHAPTER
+        if proc and (not v.get("volume") or _IN_LOWER.search(text)):
             return Kind.PAPER
         return Kind.ARTICLE
-    if (genre and _REPORT.search(genre)) or "report" in found and not v.get("publisher"):
+    if (genre and _REPORT.search(genre)) or "report" in found and not v.get("publisher") and not v.get("series"):
         return Kind.REPORT
-    if v.get("publisher") or v.get("series") or v.get("edition") or any(i.scheme == "isbn" for i in idents):
-        return Kind.BOOK
+    if v.get("publisher") or v.get("series") or v.get("edition") or any(i.scheme == "isbn" for i in idents) \
+            or v.get("place") and v.get("title"):
+        return Kind.BOOK     # (a place of publication is a book's imprint, even without a publisher)
     schemes = {i.scheme for i in idents}
     if "arxiv" in schemes:
         return Kind.REPORT

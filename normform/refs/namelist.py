@@ -202,7 +202,11 @@ def parse_one(text: str) -> Name:
     head, rest = words[lead], words[lead + 1:]
     if rest and not _INITIAL_ONLY.match(head) and head not in lx.PARTICLES \
             and all(_INITIAL_ONLY.match(w) or _caps_initials(w) for w in rest) \
-            and not any(w.endswith(".") for w in rest):
+            and (not any(w.endswith(".") for w in rest)
+                 # "Quöllmann K.": a family name is never a bare initial, so a
+                 # long word that is no known given name before initials is one
+                 or _INITIAL_ONLY.match(words[-1]) and len(head) > 3 and head.lower() not in lx.GIVEN_NAMES
+                 and "-" not in head):
         return Name(family=head, given=" ".join(rest), particle=" ".join(words[:lead]) or None, suffix=suffix)
     # given-first: family is the last word, particles (lower case) precede it
     j = len(words) - 1

@@ -38,7 +38,8 @@ _REPORT_NO = re.compile(
     r"\s*(?P<num>(?:(?:No|Nr|no|nr|Number|number)\.?\s?|#\s?)[A-Z]{0,4}-?\d[\w./-]*"
     r"|[A-Z]{1,5}-\d[\w./-]*|\d{2,4}[-/]\d[\w./-]*)")
 # lower-case "trans." only: "Trans. Amer. Math. Soc." is a journal (Transactions)
-_TRANSL = re.compile(r"\b(?:[Tt]ranslated(?:\s+from\s+(?:the\s+)?[A-Za-zäöüé]+)?\s+by|transl?\.(?:\s+by)?"
+_TRANSL = re.compile(r"\b(?:[Tt]ranslated(?:\s+from\s+(?:the\s+)?[A-Za-zäöüé]+)?\s+by"
+                     r"|transl?\.(?:\s+from\s+(?:the\s+)?[A-Za-zäöüé]+)?(?:\s+by)?"
                      r"|[Tt]r\.\s+by)\s+")
 _EDITED_BY = re.compile(r"[,.]\s*(?:edited|ed\.|eds\.|translated)\s+by\s+")
 _NAME_GLUE = frozenset(("and", "&", "-", "van", "von", "der", "den", "de", "la", "du", "di", "da", "le"))
@@ -88,6 +89,8 @@ def repair(text: str, tokens: list[Token], labels: list[str], marg: list[float])
             starts = [t.start for t in tokens]
         return starts
 
+    if text.islower() and len(tokens) >= 4:
+        _lowercase_line(text, tokens, labels, marg)
     access = "ccess" in text or "etriev" in text or "isited" in text or "iewed" in text or "onsulted" in text
     version = _version_gate(text)
     if access or version:
@@ -116,8 +119,34 @@ def repair(text: str, tokens: list[Token], labels: list[str], marg: list[float])
         _page_ranges(tokens, labels, marg)
     if _attribution_gate(text):
         _attribution(text, tokens, st(), labels)
+    elif _pinpoint_gate(text):
+        _pinpoint(text, tokens, st(), labels)
+    if "</" in text or "<a " in text:
+        _html_tags(text, tokens, st(), labels)
+    if ((" - " in text or " -- " in text or "—" in text or " – " in text) and labels[-1] != "pages"
+            or text.rstrip().endswith("]")):
+        _signature(text, tokens, st(), labels)
     if labels[-1] == "O" or labels[-1] in _ID_SCHEMES:
         _leftover_tail(tokens, labels)
+
+
+def _lowercase_line(text: str, tokens: list[Token], labels: list[str], marg: list[float]) -> None:
+    """A line typed all in lower case (``a. b. featherstone, on quill
+    partitions, discrete math 301 (2005) 1-20``) gives the labeler no
+    capitals to go by: label a copy with every word capitalised instead
+    (same length, same tokens); the fields keep the typed text, and the
+    labels are doubted a little."""
+    from normform.refs.labeler import label
+    from normform.refs.tokens import tokenize
+    cased = text.title()
+    if len(cased) != len(text):
+        return          # (a character whose capital is longer: offsets would move)
+    twin = tokenize(cased, len(tokens) + 1)
+    if len(twin) != len(tokens) or any(a.start != b.start or a.end != b.end for a, b in zip(twin, tokens)):
+        return
+    labs, mg, _ = label(twin, cased)
+    labels[:] = labs
+    marg[:] = [min(m, 0.8) for m in mg]
 
 
 def _unlabeled_head(tokens, labels, marg) -> None:
@@ -355,7 +384,9 @@ def _vancouver_initials(tokens, labels) -> None:
     x = end + 1
     if x + 1 < n and labels[x] == "O" and len(tokens[x].text) <= 3 and _caps(tokens[x].text) and tokens[x].kind == "word" \
             and tokens[x + 1].text in ".," and tokens[end].kind == "word" and tokens[x].start == tokens[end].end + 1 \
-            and any(_caps(tokens[y].text) and tokens[y].kind == "word" for y in range(1, end)):
+            and (any(_caps(tokens[y].text) and tokens[y].kind == "word" for y in range(1, end))
+                 # one name alone: "Featherstone AB. Quill sums."
+                 or end == 0 and tokens[x + 1].text == "." and len(tokens[x].text) >= 2):
         labels[x] = "authors"
 
 
@@ -467,14 +498,17 @@ _ATTRIBUTION = re.compile(
     r"(?:^|(?<=[.;,])\s+|(?<=[(\[])\s*|\s[-–—]+\s+)"
     r"(?P<cue>[Ss]ee\s+also|[Cc]f\.|(?:[Aa]dded|[Cc]ontributed|[Cc]ommunicated|[Ee]ntered|[Cc]orrected|[Ss]upplied"
     r"|[Ss]ent|[Rr]eported|[Ss]uggested)\s+by\b|[Cc]omments?:|[Ee]rratum|[Cc]orrigendum|[Rr]eprinted\s+in\b"
-    r"|[Ss]ee\s+(?:entry|entries|sequence|table)\b)")
+    r"|[Ss]ee\s+(?:entry|entries|sequence|table)\b"
+    # a translation printed after the original: "; English transl., Sb. Math. 196 ..."
+    r"|(?:English|French|German|Russian)\s+transl(?:\.|ation\b)|[Tt]ranslation\s+in\b|[Tt]ransl\.\s+in\b)")
 _FIELD_LABELS = frozenset(("title", "container_title", "volume", "pages", "date", "publisher"))
 _NOT_NOTE_WORDS = frozenset(("pp", "p", "vol", "no", "in", "and", "et", "al", "ed", "eds"))
 
 
 def _attribution_gate(text: str) -> bool:
     return ("by " in text or "ee also" in text or "ee entr" in text or "Cf." in text or "cf." in text
-            or "omment" in text or "rrat" in text or "orrigend" in text or "eprinted" in text)
+            or "omment" in text or "rrat" in text or "orrigend" in text or "eprinted" in text
+            or "ransl" in text)
 
 
 def _attribution(text: str, tokens: list[Token], starts: list[int], labels: list[str]) -> None:
@@ -528,3 +562,81 @@ def _leftover_tail(tokens: list[Token], labels: list[str]) -> None:
     for k in tail:
         if k >= first:
             labels[k] = "note"     # its marginal stays the labeler's (for "no field")
+
+
+# "... 1-20. - N. Feathergill, Dec 14 2012": a signed remark after a dash at
+# the end of the line (who added the reference, and when).  It must name
+# someone by an initial or carry a date; bounded, and tried on the tail only.
+_SIGNATURE = re.compile(r"(?:[.,;)]|\d)\s*(?:-{1,2}|–|—)\s*(?=[A-Z~])(?P<sig>[^()\[\]]{2,80})\Z")
+_SIGNED_BRACKET = re.compile(r"(?<=[.,;])\s*\[(?P<sig>[A-Z][^\[\]()]{2,80})\]\s*\Z")
+_SIG_SHAPE = re.compile(r"\b[A-Z]\.|(?<!\d)(?:1[5-9]|20)\d\d(?!\d)")
+
+
+def _signature(text: str, tokens: list[Token], starts: list[int], labels: list[str]) -> None:
+    """A trailing signature is the note; the work's own fields stay (the
+    date in the signature is when the remark was written, not the work's).
+    Also in square brackets: ``... 1-20. [From N. Feathergill, Jan 2010]``."""
+    lo = max(0, len(text.rstrip()) - 100)
+    m = _SIGNATURE.search(text, lo) or _SIGNED_BRACKET.search(text, lo)
+    if m is None or not _SIG_SHAPE.search(m.group("sig")):
+        return
+    first = bisect_left(starts, m.start("sig"))
+    if m.re is _SIGNED_BRACKET and any(lab in _ID_SCHEMES for lab in labels[first:]):
+        return    # "[MR2123456]", "[arXiv:...]": an identifier in brackets
+    head = labels[:first]
+    if first >= len(tokens) or not ("date" in head or "pages" in head or "volume" in head
+                                    or "publisher" in head):
+        return
+    if "title" in labels[first:] or "authors" in labels[first:] and "authors" not in head:
+        return    # the labeler saw the work's own fields there
+    for j in range(first, len(tokens)):
+        if labels[j] not in _ID_SCHEMES:
+            labels[j] = "note"
+
+
+# A place inside the work cited after its fields ("1-20; see p. 12", "1-20,
+# Eq. (12)", "Lemma 4.2"): which part the collection means, a note -- not
+# the work's pages or issue.  Common practice in catalogue references.
+_PINPOINT = re.compile(
+    r"[,;.(]\s*(?P<cue>[Ss]ee\s+(?:p\.|pp\.|pages?\b|§)|(?:[Ss]ee\s+)?(?:Eqs?\.|Equations?\b|Thm\.|Theorem\b|"
+    r"Lemma\b|Prop\.|Proposition\b|Cor\.|Corollary\b|Remark\b|Example\b|Exercise\b|Table\b|Fig\.|Figure\b|"
+    r"Sect?\.|Section\b|§)\s*\(?[\dA-Z])")
+
+
+def _pinpoint_gate(text: str) -> bool:
+    return ("ee p" in text or "Eq" in text or "Th" in text or "Lem" in text or "Prop" in text or "Cor" in text
+            or "Rem" in text or "Ex" in text or "Tab" in text or "Fig" in text or "Sec" in text or "§" in text)
+
+
+def _pinpoint(text: str, tokens: list[Token], starts: list[int], labels: list[str]) -> None:
+    """The pinpoint and what follows it, after the work's own volume or
+    pages, is the note (identifiers keep their labels)."""
+    for m in _PINPOINT.finditer(text):
+        first = bisect_left(starts, m.start("cue"))
+        head = labels[:first]
+        if first >= len(tokens) or not ("pages" in head or "volume" in head or "issue" in head
+                                        or "date" in head and "publisher" in head):
+            continue
+        if "title" in labels[first:] or "container_title" in labels[first:]:
+            return      # a title of the work itself comes later: not a pinpoint
+        opener = text[:tokens[first].start].rstrip()[-1:]
+        last = len(tokens) - 1
+        if opener == "(":
+            first -= 1
+            last = next((j for j in range(first + 1, len(tokens)) if tokens[j].text == ")"), last)
+        for j in range(first, last + 1):
+            if labels[j] not in _ID_SCHEMES:
+                labels[j] = "note"
+        return
+
+
+_HTML_TAG = re.compile(r"</?[A-Za-z][A-Za-z0-9]{0,9}(?:\s[^<>]{0,300})?>")
+
+
+def _html_tags(text: str, tokens: list[Token], starts: list[int], labels: list[str]) -> None:
+    """Markup pasted from a web page (``<a href="...">Title</a>``) is no
+    field; a link inside it stays an identifier."""
+    for m in _HTML_TAG.finditer(text):
+        for j in _index(tokens, starts, m.start(), m.end()):
+            if labels[j] not in _ID_SCHEMES:
+                labels[j] = "O"

@@ -916,3 +916,557 @@ def repair_publisher_head(tokens: list[Token], labels: list[str]) -> None:
         return
     for x in range(k + 1, p0):
         labels[x] = "publisher"
+
+
+# words that make a head of capitalised words an organisation's name
+_ORG_WORDS = frozenset("society group committee project authors community team consortium collective institute "
+                       "association council foundation office bureau collaboration academy union federation "
+                       "agency board commission department laboratory".split())
+_ORG_GATE = frozenset(w2 for w in _ORG_WORDS for w2 in (w, w.capitalize()))
+
+
+def repair_corporate_author(tokens: list[Token], labels: list[str]) -> None:
+    """A corporate author ends at its comma (``Quillfeather Society for
+    Enumerative Mathematics, The QSEM catalogue of ..., Publisher``): when
+    the author run holds an organisation's name (no initials, an
+    organisation word) and runs on past a comma into a piece with none,
+    that piece starts the title."""
+    end = _run_end(labels, 0)
+    n = len(labels)
+    cut = -1
+    org = False
+    for x in range(end + 1):
+        t = tokens[x]
+        if t.kind == "initial" or t.text in ("and", "&", ";"):
+            return
+        if t.text == ",":
+            if not org:
+                return
+            cut = x
+            org = False
+        elif t.text in _ORG_GATE:
+            org = True
+    if cut < 0 or org or cut == end:
+        return
+    # the piece after the comma runs into the title (or is the whole
+    # title, closed by a separator before the imprint)
+    if not (end + 1 < n and (labels[end + 1] == "title" or tokens[end + 1].text in ",.:" and "title" not in labels)):
+        return
+    if not tokens[cut + 1].text[:1].isupper():
+        return
+    labels[cut] = "O"
+    for x in range(cut + 1, end + 1):
+        labels[x] = "title"
+
+
+DEPARTMENT_GATE = frozenset(("Department", "Dept", "School", "Faculty", "Institute", "Laboratory", "Division",
+                             "Centre", "Center"))
+
+
+def repair_department_publisher(tokens: list[Token], labels: list[str]) -> None:
+    """``Technical Report No. 5, Department of Mathematics, University of
+    Leeds, 2007``: an unlabeled department piece right before the
+    institution is part of the issuing body (the publisher of a report or
+    thesis), not text to drop."""
+    p = labels.index("publisher")
+    if p < 3 or tokens[p - 1].text != "," or labels[p - 1] != "O" or labels[p - 2] != "O":
+        return
+    x = p - 2
+    while x > 0 and labels[x - 1] == "O" and tokens[x - 1].text not in ",.;:" and p - x < 8:
+        x -= 1
+    if tokens[x].text not in DEPARTMENT_GATE or x == 0 or tokens[x - 1].text not in ",.":
+        return
+    for y in range(x, p):
+        labels[y] = "publisher"
+
+
+_NAME_LOWER_OK = frozenset(("and", "et", "al", "und", "y", "e")) | lx.PARTICLES
+
+
+def repair_title_in_name_list(tokens: list[Token], labels: list[str], marg: list[float]) -> float:
+    """``A. B. Featherstone, Quill sums, PLOS One 7 (2012)``, ``Quillson,
+    T., Jr., Folded nibs, ...``: an author run that ran on past a comma
+    into a piece with a lower-case word
+    (no name has one, particles aside) -- that piece is the title, and a
+    piece after it, right before the volume or year, is the journal."""
+    end = _run_end(labels, 0)
+    n = len(labels)
+    if end + 1 >= n:
+        return 1.0
+    commas = [x for x in range(1, end) if tokens[x].text == ","]
+    for c in commas:
+        first = tokens[c + 1]
+        if first.kind != "word" or not first.text[:1].isupper() or first.text in ("and", "et") \
+                or first.text in lx.SUFFIXES or first.text in ("Jr", "Sr"):
+            continue
+        stop = next((y for y in commas if y > c), end + 1)
+        if not any(t.kind == "word" and t.text[:1].islower() and t.text not in _NAME_LOWER_OK
+                   for t in tokens[c + 2:stop]) or any(t.text in _ORG_GATE for t in tokens[c + 1:stop]):
+            continue    # ("Quillfeather Society, Working Group on Nibs": one body, two levels)
+        labels[c] = "O"
+        for x in range(c + 1, stop):
+            labels[x] = "title"
+        for x in range(c + 1, end + 1):
+            marg[x] = min(marg[x], 0.7)   # the labeler was wrong here: doubt the fields
+        if stop <= end:
+            # the journal's words the labeler left unlabeled after the run
+            # ("..., Mat. | Zametki 77", "..., J. Integer Seqs. | , Vol. 8")
+            k = end + 1
+            while k < n and k - end < 8 and labels[k] == "O" and (
+                    tokens[k].text in ".," or tokens[k].text in VOLUME_WORDS
+                    or tokens[k].kind == "word" and tokens[k].text[:1].isupper()):
+                k += 1
+            journal = k < n and labels[k] in ("volume", "date", "issue")
+            rest = "container_title" if journal else "title"
+            if journal:
+                for x in range(end + 1, k):
+                    if tokens[x].kind == "word" and tokens[x].text not in VOLUME_WORDS \
+                            and all(tokens[y].text not in ",;" for y in range(end + 1, x)):
+                        labels[x] = "container_title"
+            if tokens[stop + 1].text.lower() in GENRE_HEADS and tokens[end + 1].text in ",.;(":
+                rest = "genre"   # "Title, Dissertation, ETH Zürich": the kind of work, not more title
+            labels[stop] = "title" if rest == "title" else "O"
+            for x in range(stop + 1, end + 1):
+                labels[x] = rest
+        return 0.85
+    return 1.0
+
+
+# first words of a genre phrase ("PhD thesis", "lecture notes", "Technical report")
+GENRE_HEADS = frozenset("dissertation thesis phd ph.d doctoral habilitation habilitationsschrift master master's "
+                        "diploma diplomarbeit lecture course preprint report technical".split())
+
+
+ARTICLE_WORDS = frozenset(("Art", "Article", "Paper", "art", "article", "paper"))
+VOLUME_WORDS = frozenset(("Volume", "volume", "Vol", "vol", "Band", "Bd", "Tome", "tome"))
+ISSUE_WORDS = frozenset(("Issue", "issue", "No", "no", "Number", "number", "Heft", "Nr", "nr"))
+NUMBERING_GATE = VOLUME_WORDS | ISSUE_WORDS | ARTICLE_WORDS | frozenset(("#", ":"))
+
+
+def _after_word(tokens: list[Token], i: int) -> int:
+    """Index of the token after a keyword and its period."""
+    return i + 2 if i + 1 < len(tokens) and tokens[i + 1].text == "." else i + 1
+
+
+def repair_journal_numbering(tokens: list[Token], labels: list[str]) -> None:
+    """A journal's numbers read as the wrong field:
+    - ``Volume 301`` labeled a series number (no series in sight) is the volume;
+    - ``Issue 3-4`` or ``no. 3`` labeled pages, with the real pages later, is the issue;
+    - ``301:3 (2005) 1-20``: the number between the volume's colon and the
+      year's bracket is the issue;
+    - ``#P23``, ``#R12`` after the volume (no pages found) is an article
+      number, the pages."""
+    n = len(tokens)
+    if "series" not in labels and "series_number" in labels and "volume" not in labels \
+            and "publisher" not in labels:   # (a book's series number stays)
+        for i in range(n - 1):
+            if tokens[i].text in VOLUME_WORDS:
+                j = _after_word(tokens, i)
+                if j < n and labels[j] == "series_number":
+                    while j < n and labels[j] == "series_number":
+                        labels[j] = "volume"
+                        j += 1
+                    break
+    if "issue" not in labels and labels.count("pages") > 1:
+        for i in range(1, n - 1):
+            if tokens[i].text in ISSUE_WORDS and labels[i] == "O":
+                j = _after_word(tokens, i)
+                if j < n and labels[j] == "pages" and tokens[j].kind == "num" and "pages" in labels[_run_end(labels, j) + 1:]:
+                    while j < n and labels[j] == "pages":
+                        labels[j] = "issue"
+                        j += 1
+                    break
+    if "issue" not in labels and "volume" in labels:
+        k = labels.index("volume")
+        k = _run_end(labels, k)
+        if k + 4 < n and tokens[k + 1].text == ":" and tokens[k + 2].kind == "num" and tokens[k + 3].text == "(" \
+                and labels[k + 4] == "date" and labels[k + 2] in ("pages", "O") \
+                and "pages" in labels[k + 4:]:
+            labels[k + 2] = "issue"
+    if "pages" not in labels:
+        # "Art. B50a", "Paper A12": an article number glued from letters and
+        # digits after its keyword, read as a note or nothing
+        for i in range(1, n - 1):
+            if tokens[i].text in ARTICLE_WORDS and labels[i] == "O":
+                j = _after_word(tokens, i)
+                k = j
+                while k + 1 < n and tokens[k + 1].start == tokens[k].end and tokens[k + 1].kind in ("num", "word"):
+                    k += 1
+                if j < n and labels[j] in ("O", "note") and any(t.kind == "num" for t in tokens[j:k + 1]) \
+                        and (k + 1 >= n or tokens[k + 1].text in ".,;"):
+                    for x in range(j, k + 1):
+                        labels[x] = "pages"
+                break
+    if "pages" not in labels and "#" in (t.text for t in tokens):
+        for i in range(1, n - 1):
+            if tokens[i].text == "#" and labels[i - 1] in ("O", "volume", "issue") and i >= 2 \
+                    and any(lab in ("volume", "date") for lab in labels[max(0, i - 6):i]):
+                j = i + 1
+                if tokens[j].kind == "word" and len(tokens[j].text) == 1 and tokens[j].text.isupper() \
+                        and j + 1 < n and tokens[j + 1].kind == "num" and tokens[j].end == tokens[j + 1].start:
+                    j += 1
+                if tokens[j].kind == "num" and labels[j] in ("O", "issue") and (
+                        j + 1 >= n or tokens[j + 1].text in ".,;"):
+                    for x in range(i + 1, j + 1):
+                        labels[x] = "pages"
+                break
+
+
+_RANGE_LABELS = frozenset(("issue", "O", "note"))
+
+
+def repair_issue_as_pages(tokens: list[Token], labels: list[str]) -> None:
+    """A range right after the year's bracket, labeled issue or nothing,
+    in an article with no pages (``301 (2005), 1-20; erratum ...``,
+    ``196 (2005), 1-20; English transl., ...``) is the pages."""
+    n = len(tokens)
+    d = labels.index("date")
+    e = _run_end(labels, d)
+    i = e + 3
+    if i + 2 >= n or tokens[e + 1].text != ")" or tokens[e + 2].text != ",":
+        return
+    a, dash, b = tokens[i], tokens[i + 1], tokens[i + 2]
+    if not (a.text.isdigit() and b.text.isdigit() and dash.kind == "dash" and int(b.text) > int(a.text)):
+        return
+    if any(lab not in _RANGE_LABELS for lab in labels[i:i + 3]) or i + 3 < n and tokens[i + 3].text not in ".;,":
+        return
+    labels[i] = labels[i + 1] = labels[i + 2] = "pages"
+
+
+def repair_vancouver_journal(tokens: list[Token], labels: list[str]) -> None:
+    """Vancouver layout with the journal left unlabeled (``Title. PLoS
+    One. 2012;7(4):e1234``): the capitalised words between the title's
+    closing period and a year followed by ``;volume`` are the journal."""
+    n = len(labels)
+    d = labels.index("date")
+    e = _run_end(labels, d)
+    if e + 2 >= n or tokens[e + 1].text != ";" or labels[e + 2] != "volume":
+        return
+    s = d - 1
+    if s > 0 and tokens[s].text == ".":
+        s -= 1
+    k = s
+    while k > 0 and labels[k] == "O" and (tokens[k].kind == "word" and (tokens[k].text[:1].isupper() or
+                                                                        tokens[k].text in _GLUE)
+                                          or tokens[k].text == "." and tokens[k - 1].kind == "word"
+                                          and len(tokens[k - 1].text) <= 6):
+        k -= 1
+    # k is now the title's closing period (or the title's last word, its period taken for an abbreviation's)
+    if labels[k] == "title" and tokens[k + 1].text in ".?!":
+        k += 1
+    if k >= s or not (tokens[k].text in ".?!" and labels[k - 1] == "title"):
+        return
+    if tokens[k + 1].kind != "word" or not tokens[k + 1].text[:1].isupper():
+        return
+    for x in range(k + 1, s + 1):
+        labels[x] = "container_title"
+
+
+def repair_abbreviation_into_title(tokens: list[Token], labels: list[str]) -> None:
+    """``On quill partitions, Disc. Math. 301``, ``Quill sums. Europ. J.
+    Combin.``: the title run took the journal's first abbreviated word.
+    A title run ending in a separator, one short capitalised word and its
+    period, right before an abbreviated journal run, gives that word back."""
+    c = labels.index("container_title")
+    if c < 4 or labels[c - 1] not in ("O", "title") or tokens[c - 1].text != "." \
+            or labels[c - 2] != "title":
+        return
+    w = tokens[c - 2]
+    if w.kind != "word" or not (2 <= len(w.text) <= 6) or not w.text[:1].isupper() or w.text[1:].isupper() \
+            or _ROMAN_WORD.fullmatch(w.text) or tokens[c - 3].text not in ",." or labels[c - 4] != "title":
+        return
+    e = _run_end(labels, c)
+    if not (c + 1 <= e and tokens[c + 1].text == "." or tokens[c].kind == "initial"):
+        return      # the journal run must itself start abbreviated ("Math.", "J.")
+    labels[c - 3] = "O"
+    labels[c - 2] = labels[c - 1] = "container_title"
+
+
+def repair_book_in_editors(tokens: list[Token], labels: list[str]) -> None:
+    """``in Handbook of Quills, C. D. Inkwell, ed., CRC Press``: an editor
+    run right after "in" whose first comma piece is no name (a lower-case
+    word, no initial) -- that piece is the book's title, the container."""
+    e0 = labels.index("editors")
+    if e0 < 2 or tokens[e0 - 1].text not in ("in", "In", ":") or tokens[e0 - 1].text == ":" \
+            and tokens[e0 - 2].text not in ("in", "In"):
+        return
+    end = _run_end(labels, e0)
+    stop = next((x for x in range(e0, end + 1) if tokens[x].text == ","), -1)
+    if stop < 0 or stop == end:
+        # "in: Handbook of Quills, Eds. C. D. Inkwell and ...": the book's
+        # title is a run of its own, the names follow after a role word
+        if "editors" not in labels[end + 1:end + 5]:
+            return
+        stop, rest = end + 1, range(end + 1, min(len(labels), end + 12))
+    else:
+        rest = range(stop + 1, end + 1)
+    seg = tokens[e0:stop]
+    if any(t.kind == "initial" for t in seg) or not any(
+            t.kind == "word" and t.text[:1].islower() and t.text not in _NAME_LOWER_OK for t in seg):
+        return
+    if not any(tokens[x].kind == "initial" and labels[x] == "editors" for x in rest):
+        return      # the rest must still be names
+    for x in range(e0, stop):
+        labels[x] = "container_title"
+    if labels[stop] == "editors":
+        labels[stop] = "O"
+
+
+# status phrases that name the venue to come; the phrase itself is no field
+# (the record's kind and literal date carry it)
+_STATUS_HEADS = {("submitted", "to"), ("submitted", "for"), ("forthcoming", "in"), ("accepted", "in"),
+                 ("accepted", "for"), ("accepted", "by"), ("appear", "in")}
+_STATUS_ONLY = {("in", "preparation"), ("in", "press")}
+STATUS_GATE = frozenset(("submitted", "forthcoming", "accepted", "appear", "preparation", "press"))
+_VENUE_OK = frozenset(("O", "series", "title", "authors", "publisher", "container_title", "note"))
+
+
+def repair_status_venue(tokens: list[Token], labels: list[str]) -> None:
+    """``Title, submitted to J. Combin. Theory Ser. A, 2012``, ``forthcoming
+    in Discrete Math.``, ``Title, in preparation``: the venue after a
+    status phrase is the journal it goes to; a bare status ("in
+    preparation", "in press") ends the title and is the note."""
+    n = len(tokens)
+    for i in range(1, n - 1):
+        pair = (tokens[i].text.lower(), tokens[i + 1].text.lower())
+        if pair in _STATUS_ONLY and labels[i] in ("title", "O", "note"):
+            if i >= 2 and labels[i - 1] == "title" and tokens[i - 1].text == ",":
+                labels[i - 1] = "O"
+            labels[i] = labels[i + 1] = "note"
+            return
+        if pair not in _STATUS_HEADS or labels[i - 1] not in _VENUE_OK:
+            continue
+        h = i - 1 if pair[0] == "appear" and tokens[i - 1].text.lower() == "to" else i
+        j = i + 2
+        if j < n and tokens[j].text == ":":
+            j += 1
+        if j >= n or not tokens[j].text[:1].isupper() or labels[j] not in _VENUE_OK:
+            return
+        k = j
+        while k < n and labels[k] in _VENUE_OK and tokens[k].text not in ",;()" and not (
+                tokens[k].text == "." and k + 1 < n and tokens[k + 1].text[:1].isupper()
+                and tokens[k - 1].kind == "word" and len(tokens[k - 1].text) > 6):
+            k += 1
+        if h >= 1 and tokens[h - 1].text == "," and labels[h - 1] == "title":
+            labels[h - 1] = "O"
+        for x in range(h, j):
+            labels[x] = "O"
+        for x in range(j, k):
+            labels[x] = "container_title"
+        return
+
+
+def repair_vancouver_single(tokens: list[Token], labels: list[str], marg: list[float]) -> float:
+    """``Quöllmann K. Quill polynomials. J Comb Theory A. 2013``: one
+    Vancouver name (family, then initials) and no separator before the
+    title -- the author run ends at the initials when the words after them
+    hold a lower-case word (no name does)."""
+    end = _run_end(labels, 0)
+    n = len(labels)
+    if end < 3 or end + 1 >= n or tokens[end + 1].text not in ".:":
+        return 1.0
+    k = 2 if tokens[2].text != "." else 3
+    if not tokens[k].text[:1].isupper() or tokens[k].kind != "word" or any(
+            tokens[x].text in (",", "and", "&", ";") for x in range(k, end + 1)):
+        return 1.0
+    if not any(t.kind == "word" and t.text[:1].islower() and t.text not in _NAME_LOWER_OK
+               for t in tokens[k + 1:end + 1]):
+        return 1.0
+    if k == 3:
+        labels[2] = "O"
+    for x in range(k, end + 1):
+        labels[x] = "title"
+        marg[x] = min(marg[x], 0.7)
+    return 0.85
+
+
+def repair_series_letter(tokens: list[Token], labels: list[str]) -> None:
+    """``J Comb Theory A. 2013``: a lone capital letter between the journal
+    and the year, read into the date, is the journal's series letter."""
+    c = labels.index("container_title")
+    e = _run_end(labels, c)
+    if e + 2 < len(tokens) and labels[e + 1] == "date" and tokens[e + 1].kind == "initial" \
+            and len(tokens[e + 1].text) == 2 and labels[e + 2] == "date" and tokens[e + 2].kind == "num":
+        labels[e + 1] = "container_title"
+
+
+_ROLE_WORDS = frozenset(("edited", "ed", "eds", "Ed", "Eds", "editor", "editors", "Editor", "Editors"))
+
+
+def repair_title_before_editors(tokens: list[Token], labels: list[str]) -> None:
+    """``Handbook of Quills, edited by C. D. Inkwell, CRC Press``: a record
+    that opens with a book's title, read as its authors -- no initial, a
+    lower-case word, and the editors' role right after its comma."""
+    end = _run_end(labels, 0)
+    n = len(labels)
+    if end + 3 >= n or tokens[end + 1].text != "," or tokens[end + 2].text not in _ROLE_WORDS \
+            or "editors" not in labels[end + 2:end + 6]:
+        return
+    seg = tokens[:end + 1]
+    if any(t.kind == "initial" or t.text in ("and", "&") for t in seg) or not any(
+            t.kind == "word" and t.text[:1].islower() and t.text not in _NAME_LOWER_OK for t in seg):
+        return
+    for x in range(end + 1):
+        labels[x] = "title"
+
+
+def repair_event_bracket(tokens: list[Token], labels: list[str]) -> None:
+    """``Proceedings of the ... Congress (Zürich, 1994), Birkhäuser, Basel,
+    1995``: the bracket after a proceedings title holds the meeting's place
+    and year; when the book's own imprint and year follow, the bracket is
+    part of the proceedings title, and the year of the record is the
+    book's."""
+    c = labels.index("container_title")
+    e = _run_end(labels, c)
+    n = len(labels)
+    if e + 4 >= n or tokens[e + 1].text != "(":
+        return
+    k = e + 2
+    while k < n and k - e < 12 and tokens[k].text != ")" and (labels[k] in ("place", "date")
+                                                              or tokens[k].text == ","):
+        k += 1
+    if k >= n or tokens[k].text != ")" or "date" not in labels[e + 2:k]:
+        return
+    after = labels[k + 1:]
+    if "publisher" not in after or "date" not in after:
+        return
+    for x in range(e + 1, k + 1):
+        labels[x] = "container_title"
+
+
+def repair_genre_institution(tokens: list[Token], labels: list[str]) -> None:
+    """``Lecture notes, Quillfeather Summer School, 2009``: a genre run that
+    ran past its comma into capitalised words -- with no publisher found,
+    those words are the issuing body."""
+    g = labels.index("genre")
+    e = _run_end(labels, g)
+    c = next((x for x in range(g + 1, e) if tokens[x].text == ","), -1)
+    if c < 0 or not tokens[c + 1].text[:1].isupper() or tokens[c + 1].kind != "word":
+        return
+    if any(t.text.lower() in GENRE_HEADS for t in tokens[c + 1:e + 1]):
+        return      # "Technical report, Preprint": still the genre
+    labels[c] = "O"
+    for x in range(c + 1, e + 1):
+        labels[x] = "publisher"
+
+
+# Cities of mathematical meetings beyond the imprint places of the lexicon
+# (which is a labeler feature: changing it would need a retrain).  Common practice.
+MEETING_PLACES = frozenset("""beijing shanghai seoul hyderabad madras chennai kolkata calcutta rio janeiro
+sao paulo são santiago buenos aires mexico lisbon porto granada seville sevilla valencia florence firenze
+naples napoli pisa trieste turin torino munich münchen hamburg dresden bielefeld oberwolfach luminy marseille
+lyon grenoble bordeaux nice strasbourg toulouse brussels leuven ghent antwerp utrecht leiden copenhagen
+stockholm uppsala oslo helsinki reykjavik dublin edinburgh glasgow manchester warwick durham athens
+istanbul ankara jerusalem haifa tel aviv cairo tehran sydney melbourne canberra auckland wellington
+vancouver seattle montréal ottawa quebec atlanta austin houston dallas denver pittsburgh minneapolis
+ann arbor madison urbana champaign ithaca kyiv kiev minsk novosibirsk st. petersburg leningrad sofia
+bucharest belgrade zagreb ljubljana bratislava kraków krakow poznań wrocław taipei hong kong osaka
+nagoya sendai hanoi bangkok kuala lumpur""".split())
+
+
+def _meeting_place(t: Token) -> bool:
+    return _place_word(t) or t.text.lower() in MEETING_PLACES
+
+
+def repair_place_after_volume(tokens: list[Token], labels: list[str]) -> None:
+    """``Proc. Int. Congress of Mathematicians, Vol. 2, Beijing, 2002``: a
+    second journal/proceedings run after the volume that is only a known
+    place is the meeting's place, not more of the title (the longer run
+    would win and the place be lost)."""
+    v = labels.index("volume")
+    n = len(labels)
+    x = v + 1
+    while x < n and labels[x] != "container_title":
+        if labels[x] not in ("O", "volume"):
+            return
+        x += 1
+    if x >= n:
+        return
+    e = _run_end(labels, x)
+    words = [t for t in tokens[x:e + 1] if t.kind == "word"]
+    if not words or not all(_meeting_place(t) for t in tokens[x:e + 1] if t.text != ","):
+        return
+    for y in range(x, e + 1):
+        labels[y] = "O" if tokens[y].text == "," else "place"
+
+
+GENRE_GATE = frozenset(("thesis", "Thesis", "dissertation", "Dissertation", "notes", "report", "Report", "preprint",
+                        "Preprint", "Diplomarbeit", "Habilitationsschrift"))
+
+
+def repair_unlabeled_genre(tokens: list[Token], labels: list[str]) -> None:
+    """``Quill sums. PhD thesis. University of Leeds. 2004.``: a genre phrase
+    standing alone between separators, left unlabeled, is the genre (it
+    says which kind of work the record is, and would be lost)."""
+    n = len(tokens)
+    for i in range(1, n):
+        if tokens[i].text not in GENRE_GATE or labels[i] != "O":
+            continue
+        a = i
+        while a > 0 and labels[a - 1] == "O" and tokens[a - 1].kind in ("word", "initial") and i - a < 3:
+            a -= 1
+        b = i
+        while b + 1 < n and labels[b + 1] == "O" and tokens[b + 1].kind == "word" and b - i < 2:
+            b += 1
+        if a == 0 or tokens[a - 1].text not in ",.;" or b + 1 < n and tokens[b + 1].text not in ",.;(":
+            return
+        if labels[a - 1] != "O" or not any(lab in ("title", "authors") for lab in labels[:a]):
+            return
+        for x in range(a, b + 1):
+            labels[x] = "genre"
+        return
+
+
+def repair_abbreviated_publisher(tokens: list[Token], labels: list[str]) -> None:
+    """``Master Thesis, Univ. Leeds 2005``: a publisher run cut at the period
+    of its abbreviated word; the capitalised words glued after it, up to
+    the year or a separator, belong to it."""
+    p = labels.index("publisher")
+    e = _run_end(labels, p)
+    n = len(tokens)
+    if e + 2 >= n or tokens[e + 1].text != "." or labels[e + 1] != "O" or len(tokens[e].text) > 5:
+        return
+    k = e + 2
+    while k < n and labels[k] == "O" and tokens[k].kind == "word" and tokens[k].text[:1].isupper() and k - e < 5:
+        k += 1
+    if k == e + 2 or k < n and not (labels[k] == "date" or tokens[k].text in ",.;"):
+        return
+    for x in range(e + 1, k):
+        labels[x] = "publisher"
+
+
+_PART_WORDS = frozenset(("Chapter", "chapter", "Ch", "ch", "Section", "Part", "Appendix"))
+
+
+def repair_part_in_book(tokens: list[Token], labels: list[str]) -> None:
+    """``Title, Chapter 3 in Handbook of Quills, CRC Press``, ``Title,
+    pp. 1-30 in Handbook of Quills, ...``: "in" after a part of a book (a
+    chapter number or the pages) introduces the book -- its words, up to
+    the comma, are the container; the chapter number is the note."""
+    n = len(tokens)
+    for i in range(2, n - 1):
+        if tokens[i].text not in ("in", "In") or not tokens[i + 1].text[:1].isupper():
+            continue
+        prev = i - 1
+        part = None
+        if tokens[prev].kind == "num":
+            k = prev - 1 if tokens[prev - 1].text != "." else prev - 2
+            if k >= 0 and tokens[k].text in _PART_WORDS:
+                part = k
+        if part is None and labels[prev] != "pages":
+            continue
+        if part is not None and (part == 0 or tokens[part - 1].text != ","):
+            continue
+        j = i + 1
+        while j < n and tokens[j].text not in ",;(" and labels[j] in ("title", "O", "container_title") and j - i < 20:
+            j += 1
+        if j >= n or tokens[j].text not in ",;(" or j == i + 1:
+            return
+        if part is not None:
+            labels[part - 1] = "O"
+            for x in range(part, prev + 1):
+                labels[x] = "note"
+        labels[i] = "O"
+        for x in range(i + 1, j):
+            labels[x] = "container_title"
+        return
