@@ -53,8 +53,15 @@ def run(args: argparse.Namespace, *, toolkit: str | None = None) -> int:
     except CleanError as exc:
         raise UsageError(str(exc)) from None
     except EngineError as exc:
-        print(f"normform clean: {exc}; progress so far is checkpointed (--resume)", file=sys.stderr)
+        after = ("; progress so far is checkpointed: run the same command with --resume to continue"
+                 if exc.started else "; nothing was written")
+        print(f"normform clean: {exc}{after}", file=sys.stderr)
         return 2
+    except KeyboardInterrupt:
+        # caught here, not only by the dispatcher, so that the way back is named
+        print("normform clean: interrupted; progress so far is checkpointed: run the same command "
+              "with --resume to continue", file=sys.stderr)
+        return 130
     except OSError as exc:
         print(f"normform clean: {exc}", file=sys.stderr)
         return 2
@@ -71,8 +78,10 @@ def run(args: argparse.Namespace, *, toolkit: str | None = None) -> int:
         print("normform clean: records out do not match references read", file=sys.stderr)
         return 1
     if result.unreadable:
-        print(f"normform clean: {len(result.unreadable)} entry file(s) could not be read (see above); "
-              "fix them and run again", file=sys.stderr)
+        # named here too: with --quiet the per-file messages above are not printed
+        shown = ", ".join(result.unreadable[:5]) + (", ..." if len(result.unreadable) > 5 else "")
+        print(f"normform clean: {len(result.unreadable)} entry file(s) could not be read: {shown} "
+              "(line and column in summary.json \"problems\"); fix them and run again", file=sys.stderr)
         return 1
     return 0
 

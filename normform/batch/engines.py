@@ -22,7 +22,15 @@ Chunk = tuple[list, int]   # (items, first record number)
 
 
 class EngineError(Exception):
-    """The chosen engine cannot run (dask not installed, scheduler unreachable)."""
+    """The chosen engine cannot run (dask not installed, scheduler unreachable) or broke mid-run.
+
+    ``started`` says whether the run had begun (its checkpoint can be resumed)
+    or stopped before anything was written.
+    """
+
+    def __init__(self, message: str, *, started: bool = True) -> None:
+        super().__init__(message)
+        self.started = started
 
 
 def default_jobs() -> int:
@@ -80,26 +88,86 @@ def run_local(chunks: Iterable[Chunk], settings: Settings, jobs: int) -> Iterato
     # fork: workers start fast and inherit what is already imported.
     context = multiprocessing.get_context("fork")
     executor = ProcessPoolExecutor(max_workers=jobs, mp_context=context, initializer=_worker_init)
+    from concurrent.futures.process import BrokenProcessPool
+
+    def submit(chunk: Chunk):
+        try:
+            return executor.submit(process_chunk, chunk[0], chunk[1], settings)
+        except BrokenProcessPool as exc:
+            raise EngineError(f"a worker process died ({exc})") from exc
+
+    def result(future):
+        try:
+            return future.result()
+        except BrokenProcessPool as exc:   # killed from outside, or by the kernel when out of memory
+            raise EngineError("a worker process died (killed from outside or out of memory)") from exc
+
     try:
-        yield from _ordered(lambda c: executor.submit(process_chunk, c[0], c[1], settings),
-                            chunks, 3 * jobs, lambda f: f.result())
+        yield from _ordered(submit, chunks, 3 * jobs, result)
     finally:
         executor.shutdown(wait=True, cancel_futures=True)
 
 
-def run_dask(chunks: Iterable[Chunk], settings: Settings, scheduler: str,
-             connect_timeout: float = 20.0) -> Iterator[tuple[Chunk, list]]:
+def _one_line(exc: BaseException) -> str:
+    return " ".join(str(exc).split())
+
+
+def check_address(scheduler: str) -> None:
+    """Refuse a malformed scheduler address before connecting.
+
+    ``distributed.Client`` given one raises, then its half-built client
+    waits 40 s in ``__del__`` and prints a traceback.
+    """
     try:
-        from distributed import Client
+        from distributed.comm.addressing import parse_address, parse_host_port
+        from distributed.comm.registry import get_backend
     except ImportError as exc:  # optional extra
-        raise EngineError("--engine dask needs the optional extra: pip install 'normform[dask]'") from exc
+        raise EngineError("--engine dask needs the optional extra: pip install 'normform[dask]'",
+                          started=False) from exc
     try:
-        client = Client(scheduler, set_as_default=False, timeout=f"{connect_timeout}s")
+        scheme, location = parse_address(scheduler, strict=False)
+        get_backend(scheme)
+        if scheme in ("tcp", "tls", "ws", "wss"):
+            parse_host_port(location)
+    except (ValueError, TypeError) as exc:
+        raise EngineError(f"--scheduler {scheduler!r} is not a Dask scheduler address ({exc}); "
+                          "expected e.g. tcp://10.0.0.5:8786", started=False) from None
+
+
+def connect_dask(scheduler: str, connect_timeout: float = 20.0):
+    """A ``distributed.Client`` of the scheduler; connected before the run writes anything."""
+    check_address(scheduler)
+    from distributed import Client
+
+    try:
+        return Client(scheduler, set_as_default=False, timeout=f"{connect_timeout}s")
     except (OSError, ValueError) as exc:
-        raise EngineError(f"cannot reach the Dask scheduler at {scheduler}: {exc}") from exc
+        raise EngineError(f"cannot reach the Dask scheduler at {scheduler}: {exc}", started=False) from exc
+
+
+def run_dask(chunks: Iterable[Chunk], settings: Settings, scheduler: str | None = None,
+             connect_timeout: float = 20.0, client=None) -> Iterator[tuple[Chunk, list]]:
+    """Chunks as futures on a Dask cluster (``client`` from :func:`connect_dask`, or made here)."""
+    if client is None:
+        client = connect_dask(scheduler, connect_timeout)
+
+    def submit(chunk: Chunk):
+        try:
+            return client.submit(process_chunk, chunk[0], chunk[1], settings, pure=False)
+        except Exception as exc:  # the client has lost its scheduler
+            raise EngineError(f"the Dask cluster failed: {type(exc).__name__}: {_one_line(exc)}") from exc
+
+    def result(future):
+        try:
+            return future.result()
+        except Exception as exc:  # scheduler or worker lost, or a task failed on a worker
+            raise EngineError(f"the Dask cluster failed: {type(exc).__name__}: {_one_line(exc)}") from exc
+
     try:
-        threads = sum(client.nthreads().values()) or 1
-        yield from _ordered(lambda c: client.submit(process_chunk, c[0], c[1], settings, pure=False),
-                            chunks, 2 * threads + 1, lambda f: f.result())
+        try:
+            threads = sum(client.nthreads().values()) or 1
+        except Exception as exc:
+            raise EngineError(f"the Dask cluster failed: {type(exc).__name__}: {_one_line(exc)}") from exc
+        yield from _ordered(submit, chunks, 2 * threads + 1, result)
     finally:
         client.close()

@@ -20,7 +20,7 @@ from __future__ import annotations
 
 import json
 import os
-from dataclasses import dataclass, field
+from dataclasses import dataclass, field, replace
 from pathlib import Path
 from typing import Iterator
 
@@ -88,15 +88,23 @@ def input_kind(path: Path) -> str:
     return TEXT
 
 
-def expand(paths: list[str]) -> list[Path]:
-    """Inputs with directories replaced by their entry files, sorted (stable order)."""
+def expand(paths: list[str], exclude: Path | None = None) -> list[Path]:
+    """Inputs with directories replaced by their entry files, sorted (stable order).
+
+    Files under ``exclude`` (the output directory, when it lies inside an
+    input directory) are skipped: its ``summary.json`` is not an entry.
+    """
     out: list[Path] = []
+    skip = exclude.resolve() if exclude is not None else None
     for name in paths:
         path = Path(name)
         if not path.exists():
             raise InputError(f"{name}: no such file or directory")
         if path.is_dir():
-            found = sorted(p for p in path.rglob("*") if p.is_file() and p.suffix.lower() in ENTRY_SUFFIXES)
+            # only an output directory *inside* this one is skipped (-o . around it is not)
+            inner = skip if skip is not None and path.resolve() in skip.parents else None
+            found = sorted(p for p in path.rglob("*") if p.is_file() and p.suffix.lower() in ENTRY_SUFFIXES
+                           and not (inner is not None and inner in p.resolve().parents))
             out.extend(found)
         else:
             out.append(path)
@@ -158,6 +166,11 @@ def read_jsonl(path: Path, stats: ReadStats) -> Iterator[Item]:
             ident = obj.get("id")
             yield Item("ref", obj["text"].strip(), name, lineno,
                        entry=None if ident is None else str(ident), flags=flags)
+            if "references" in obj or "formulas" in obj:
+                # both shapes in one object: keep both rather than drop the entry's lists
+                stats.note(f"{name}:{lineno}:1: an object with \"text\" and entry lists; "
+                           "read the text and the entry's references and formulas")
+                yield from entry_items(obj, name, lineno, flags)
         elif isinstance(obj, dict) and ("references" in obj or "formulas" in obj):
             yield from entry_items(obj, name, lineno, flags)
         else:
@@ -228,8 +241,38 @@ def read_entries(path: Path, stats: ReadStats) -> Iterator[Item]:
         stats.note(exc.describe())
         stats.unreadable.append(name)
         return
+    bad = _invalid_utf8_lines(path)
+    for where_line, offset in bad:
+        if len(stats.invalid_utf8) < KEEP:
+            stats.invalid_utf8.append((name, where_line, offset))
     for entry, line, positions in loaded:
-        yield from entry_items(entry, name, line, lines=positions)
+        for item in entry_items(entry, name, line, lines=positions):
+            offset = _bad_offset_for(item, bad)
+            yield item if offset is None else replace(item, flags=item.flags + (("invalid_utf8", offset),))
+
+
+def _invalid_utf8_lines(path: Path) -> list[tuple[int, int]]:
+    """(line, byte offset of the first bad byte) of every line of ``path`` that is not valid UTF-8."""
+    out = []
+    for lineno, start, body in _physical_lines(path):
+        _, where = decode_line(body, start)
+        if where is not None:
+            out.append((lineno, where))
+    return out
+
+
+def _bad_offset_for(item: Item, bad: list[tuple[int, int]]) -> int | None:
+    """The invalid-UTF-8 offset that concerns an entry item: on its line, or (a value spanning
+    lines, or a line not known) the first bad line at or after it whose text was replaced."""
+    if not bad:
+        return None
+    for line, offset in bad:
+        if line == item.line:
+            return offset
+    if "\ufffd" in item.text:
+        after = [offset for line, offset in bad if item.line is None or line >= item.line]
+        return after[0] if after else bad[0][1]
+    return None
 
 
 def iter_items(paths: list[Path], stats: ReadStats) -> Iterator[Item]:

@@ -43,6 +43,15 @@ class Progress:
                 text += f", ETA {max(self.total - self.done, 0) / rate:.0f}s"
         return text + f", {rate:,.0f} items/s"
 
-    def close(self) -> None:
+    def close(self, finished: bool = False) -> None:
+        """``finished``: every item is done, so the bar ends at 100 %.
+
+        The total is counted fast from line ends, blank lines included (and an
+        entry line of JSON Lines may hold several items), so it is only an
+        estimate; a finished run shows what it really did.
+        """
         if self.bar is not None:
+            if finished and self.bar.n != self.bar.total:
+                self.bar.total = self.bar.n
+                self.bar.refresh()
             self.bar.close()

@@ -13,7 +13,7 @@ from html import escape
 from importlib import resources
 from pathlib import Path
 
-from normform.batch.rowhtml import diff_html
+from normform.batch.rowhtml import diff_html, visible
 
 CLUSTER_LIMIT = 5000      # cluster sections in the page (all are in clusters.jsonl)
 MEMBER_LIMIT = 50         # rows shown per cluster section
@@ -105,7 +105,7 @@ def _cluster_sections(handle, clusters: Path, row_limit: int) -> dict[int, int]:
             canon = cluster["canonical"]
             handle.write(f'<section class="cluster" id="c{n}" aria-labelledby="c{n}-h">'
                          f'<h3 id="c{n}-h">Cluster {n}: {cluster["size"]} citations of one work</h3>'
-                         f'<p class="canon"><span class="tag">canonical</span> {escape(canon["house"])}</p>'
+                         f'<p class="canon"><span class="tag">canonical</span> {visible(canon["house"])}</p>'
                          '<table><thead><tr><th scope="col">origin</th><th scope="col">as typed</th>'
                          '<th scope="col">cleaned</th><th scope="col">confidence</th></tr></thead><tbody>')
             for m in cluster["members"][:MEMBER_LIMIT]:

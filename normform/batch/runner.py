@@ -64,6 +64,16 @@ def _chunks(items: Iterator, size: int, first_seq: int, counter: dict) -> Iterat
         seq += sum(1 for item in chunk if item.what == "ref")
 
 
+def _check_outdir(paths_in: list[str], outdir: Path) -> None:
+    """OUTDIR must be a directory of its own: not an input file, not an input directory."""
+    for name in paths_in:
+        if inputs.same_file(Path(name), outdir):
+            raise CleanError(f"-o {outdir} is the input {name}; the inputs are never written to, "
+                             "choose another output directory")
+    if outdir.exists() and not outdir.is_dir():
+        raise CleanError(f"-o {outdir} is a file, not a directory; choose an output directory")
+
+
 def _check_outputs_do_not_clobber(paths: list[Path], outdir: Path) -> None:
     for path in paths:
         for name in OUTPUTS:
@@ -81,8 +91,9 @@ def clean(paths_in: list[str], outdir: str | Path, *, threshold: float = 0.9, jo
           dask_timeout: float = 20.0) -> CleanResult:
     err = err or sys.stderr
     outdir = Path(outdir)
+    _check_outdir(paths_in, outdir)
     try:
-        paths = inputs.expand(paths_in)
+        paths = inputs.expand(paths_in, exclude=outdir)
     except inputs.InputError as exc:
         raise CleanError(str(exc)) from None
     if not paths:
@@ -95,72 +106,118 @@ def clean(paths_in: list[str], outdir: str | Path, *, threshold: float = 0.9, jo
         raise CleanError("--threshold must be between 0 and 1")
     if chunk_size < 1:
         raise CleanError("--chunk-size must be at least 1")
+    if report_rows < 0:
+        raise CleanError("--report-rows must be 0 or more")
+    if not 0.0 <= similarity <= 100.0:
+        raise CleanError("--similarity must be between 0 and 100")
     if against is not None and not Path(against).exists():
         raise CleanError(f"--against {against}: no such file")
-    outdir.mkdir(parents=True, exist_ok=True)
     _check_outputs_do_not_clobber(paths, outdir)
-
-    settings = Settings(threshold=threshold, report_rows=report_rows,
-                        against=str(Path(against).resolve()) if against else None,
-                        **({"toolkit": toolkit} if toolkit else {}))
-    identity = {"inputs": inputs.fingerprint(paths), "settings": dataclasses.asdict(settings),
-                "similarity": similarity}
-    from normform.batch.store import ResumeError
+    # Connect before anything is written: a wrong address leaves no work directory behind.
+    client = engines.connect_dask(scheduler, dask_timeout) if engine == "dask" else None
+    outdir.mkdir(parents=True, exist_ok=True)
 
     try:
-        store, resumed = Store.open(outdir, identity, resume)
-    except ResumeError as exc:
-        raise CleanError(str(exc)) from None
-    if resume and not resumed and not quiet:
-        err.write("clean: nothing to resume, starting from the beginning\n")
+        settings = Settings(threshold=threshold, report_rows=report_rows,
+                            against=str(Path(against).resolve()) if against else None,
+                            **({"toolkit": toolkit} if toolkit else {}))
+        identity = {"inputs": inputs.fingerprint(paths), "settings": dataclasses.asdict(settings),
+                    "similarity": similarity, "code": code_fingerprint(settings.toolkit)}
+        from normform.batch.store import ResumeError
 
-    state = store.state
-    if state["phase"] == "renaming":
-        return _complete(store, err, quiet, resumed=True)
-    totals = state["totals"] or stats.empty()
-    started = time.monotonic()
-    earlier = state["seconds"]
-    read = inputs.ReadStats()
-    counted = {"refs": 0}
+        try:
+            store, resumed = Store.open(outdir, identity, resume)
+        except ResumeError as exc:
+            raise CleanError(str(exc)) from None
+        if resume and not resumed and not quiet:
+            err.write("clean: nothing to resume, starting from the beginning\n")
 
-    def counting(items):
-        for item in items:
-            if item.what == "ref":
-                counted["refs"] += 1
-            yield item
+        state = store.state
+        if state["phase"] == "renaming":
+            return _complete(store, err, quiet, resumed=True)
+        totals = state["totals"] or stats.empty()
+        started = time.monotonic()
+        earlier = state["seconds"]
+        read = inputs.ReadStats()
+        counted = {"refs": 0}
 
-    stream = counting(inputs.iter_items(paths, read))
-    skipped = sum(1 for _ in itertools.islice(stream, state["items_done"]))
-    if skipped != state["items_done"]:
-        raise CleanError("the inputs are shorter than the checkpoint says; run without --resume")
+        def counting(items):
+            for item in items:
+                if item.what == "ref":
+                    counted["refs"] += 1
+                yield item
 
-    total = inputs.count_lines(paths)
-    progress = Progress(total, quiet=quiet, stream=err, initial=state["items_done"],
-                        interval=progress_interval)
-    counter = {"items": 0}
-    chunks = _chunks(stream, chunk_size, state["records_done"] + 1, counter)
-    if engine == "dask":
-        results = engines.run_dask(chunks, settings, scheduler, dask_timeout)
-    else:
-        results = engines.run_local(chunks, settings, jobs or engines.default_jobs())
-    previous = _terminate_as_interrupt()
-    try:
-        for (items, _), chunk_results in results:
-            store.commit_chunk(chunk_results, len(items), totals,
-                               earlier + time.monotonic() - started)
-            progress.update(len(items))
+        stream = counting(inputs.iter_items(paths, read))
+        skipped = sum(1 for _ in itertools.islice(stream, state["items_done"]))
+        if skipped != state["items_done"]:
+            raise CleanError("the inputs are shorter than the checkpoint says; run without --resume")
+
+        total = inputs.count_lines(paths)
+        progress = Progress(total, quiet=quiet, stream=err, initial=state["items_done"],
+                            interval=progress_interval)
+        counter = {"items": 0}
+        chunks = _chunks(stream, chunk_size, state["records_done"] + 1, counter)
+        if engine == "dask":
+            results = engines.run_dask(chunks, settings, client=client)
+        else:
+            results = engines.run_local(chunks, settings, jobs or engines.default_jobs())
+        previous = _terminate_as_interrupt()
+        finished = False
+        try:
+            for (items, _), chunk_results in results:
+                store.commit_chunk(chunk_results, len(items), totals,
+                                   earlier + time.monotonic() - started)
+                progress.update(len(items))
+            finished = True
+        finally:
+            progress.close(finished)
+            close = getattr(results, "close", None)
+            if close:
+                close()
+            _restore(previous)
+
+        seconds = earlier + time.monotonic() - started
+        result = _finish(store, paths, read, counted["refs"], totals, settings, similarity, seconds, err, quiet,
+                         threads=jobs or engines.default_jobs())
+        result.resumed = resumed
+        return result
     finally:
-        progress.close()
-        close = getattr(results, "close", None)
-        if close:
-            close()
-        _restore(previous)
+        if client is not None:
+            client.close()   # idempotent; also when the run stopped before its first chunk
 
-    seconds = earlier + time.monotonic() - started
-    result = _finish(store, paths, read, counted["refs"], totals, settings, similarity, seconds, err, quiet,
-                     threads=jobs or engines.default_jobs())
-    result.resumed = resumed
-    return result
+
+def code_fingerprint(toolkit: str | None = None) -> str:
+    """Identity of the code and data that make the records (path, size, mtime of each file).
+
+    Kept with the checkpoint: records made by one version of the parser and
+    records made by another must not end up in one set of outputs, so a
+    resume after an upgrade (or an edit of the code) is refused.  With the
+    shipped toolkit that is the whole normform package; with another toolkit
+    (test doubles) this package and the toolkit's own module.  Only ``stat``
+    calls: a few milliseconds.
+    """
+    import hashlib
+    import importlib.util
+
+    import normform
+    from normform.batch.toolkit import DEFAULT
+
+    package = Path(normform.__file__).resolve().parent
+    roots = [package]
+    if toolkit and toolkit != DEFAULT:
+        roots = [package / "batch"]
+        spec = importlib.util.find_spec(toolkit.partition(":")[0])
+        if spec is not None and spec.origin:
+            roots.append(Path(spec.origin).resolve())
+    digest = hashlib.blake2b(normform.__version__.encode(), digest_size=12)
+    for root in roots:
+        files = sorted(root.rglob("*")) if root.is_dir() else [root]
+        for path in files:
+            if path.suffix == ".pyc" or "__pycache__" in path.parts or not path.is_file():
+                continue
+            st = path.stat()
+            digest.update(f"{path}\0{st.st_size}\0{st.st_mtime_ns}\n".encode())
+    return digest.hexdigest()
 
 
 def _terminate_as_interrupt():

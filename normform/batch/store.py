@@ -65,8 +65,14 @@ class Store:
                                       "run without --resume to start again")
                 if state.get("identity") != identity:
                     db.close()
+                    before = state.get("identity") or {}
+                    changed = [what for key, what in (("inputs", "the inputs (path, size or modification time)"),
+                                                      ("settings", "the settings"), ("similarity", "the settings"),
+                                                      ("code", "normform itself (upgraded or edited)"))
+                               if before.get(key) != identity.get(key)]
+                    named = "; ".join(dict.fromkeys(changed)) or "the inputs or settings"
                     raise ResumeError(
-                        f"{work} holds a run of different inputs or settings; "
+                        f"{work} holds a run that cannot be continued: changed since its checkpoint: {named}; "
                         "run without --resume to start again")
                 return cls(outdir, work, db, state), True
             db.close()
