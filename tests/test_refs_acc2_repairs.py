@@ -7,22 +7,10 @@ and place names are real facts."""
 from normform.model import Kind
 from normform.refs import relabel
 from normform.refs.assemble import assemble
-from normform.refs.tokens import tokenize
+from refs_support import labelled
 
 
-def _labels(text, spec):
-    """spec: list of (substring, label) in order of appearance; other tokens are O."""
-    toks = tokenize(text)
-    labels = ["O"] * len(toks)
-    pos = 0
-    for sub, lab in spec:
-        a = text.index(sub, pos)
-        b = a + len(sub)
-        pos = b
-        for i, t in enumerate(toks):
-            if a <= t.start and t.end <= b:
-                labels[i] = lab
-    return toks, labels
+_labels = labelled
 
 
 def _run(text, spec, conf=0.99, relabel_first=False):

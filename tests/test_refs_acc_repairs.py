@@ -3,23 +3,11 @@ input, fed hand-made (deliberately wrong) labels so the checks do not depend
 on the trained model.  People and titles are invented (QSEM scenario);
 journal, series, publisher and place names are real facts."""
 
-from normform.refs.assemble import assemble
-from normform.refs.tokens import tokenize
+from refs_support import assemble_labelled
 
 
 def _run(text, spec, conf=0.99):
-    """spec: list of (substring, label) in order of appearance; other tokens are O."""
-    toks = tokenize(text)
-    labels = ["O"] * len(toks)
-    pos = 0
-    for sub, lab in spec:
-        a = text.index(sub, pos)
-        b = a + len(sub)
-        pos = b
-        for i, t in enumerate(toks):
-            if a <= t.start and t.end <= b:
-                labels[i] = lab
-    return assemble(text, toks, labels, [conf] * len(toks), conf)
+    return assemble_labelled(text, spec, conf)
 
 
 # --- imprints -------------------------------------------------------------------

@@ -174,13 +174,7 @@ def _run_end(labels: list[str], i: int) -> int:
     return i + len(list(next(groupby(islice(labels, i, None)))[1])) - 1
 
 
-def _first_run(labels: list[str], label: str) -> tuple[int, int]:
-    """First and last index of the first run of ``label``; (-1, -1) if none."""
-    try:
-        i = labels.index(label)
-    except ValueError:
-        return -1, -1
-    return i, _run_end(labels, i)
+_first_run = rp.first_run     # first and last index of the first run of a label; (-1, -1) if none
 
 
 def _positions(tokens: list[Token], wanted: frozenset[str], lo: int, hi: int) -> list[int]:

@@ -42,6 +42,15 @@ def _run_end(labels: list[str], i: int) -> int:
     return j - 1
 
 
+def first_run(labels: list[str], label: str) -> tuple[int, int]:
+    """First and last index of the first run of ``label``; (-1, -1) if none."""
+    try:
+        i = labels.index(label)
+    except ValueError:
+        return -1, -1
+    return i, _run_end(labels, i)
+
+
 def _place_word(t: Token) -> bool:
     low = t.text.lower()
     return (low in lx.PLACES or low in _REGIONS or (t.kind == "initial" and t.text.isupper())
@@ -191,11 +200,9 @@ def repair_comma_title_journal(tokens: list[Token], labels: list[str]) -> None:
     the journal, the lower-case piece before it the title."""
     if "title" in labels:
         return
-    try:
-        s0 = labels.index("container_title")
-    except ValueError:
+    s0, e = first_run(labels, "container_title")
+    if s0 < 0:
         return
-    e = _run_end(labels, s0)
     comma = next((k for k in range(e - 1, s0, -1) if tokens[k].text == ","), -1)
     if comma < s0 + 2 or not _journal_tail(tokens, comma + 1, e + 1):
         return
@@ -264,11 +271,9 @@ def repair_title_into_journal(tokens: list[Token], labels: list[str], marg: list
     "!") is the journal when a volume, pages or the rest of the journal
     follows.  A part number ("II.") before it stays with the title."""
     n = len(labels)
-    try:
-        f = labels.index("title")
-    except ValueError:
+    f, last = first_run(labels, "title")
+    if f < 0:
         return 1.0
-    last = _run_end(labels, f)
     nxt = last + 1
     while nxt < n and labels[nxt] == "O" and tokens[nxt].kind == "punct" and nxt - last < 3:
         nxt += 1
@@ -330,11 +335,9 @@ def repair_title_edition(tokens: list[Token], labels: list[str]) -> None:
     ``Title. Second. Berlin`` (CSL styles print the edition field as
     typed).  The ordinal is the edition; the title ends before it."""
     n = len(labels)
-    try:
-        f = labels.index("title")
-    except ValueError:
+    f, e = first_run(labels, "title")
+    if f < 0:
         return
-    e = _run_end(labels, f)
     if e - f < 2:
         return
     # "(1st ed" / "(Second": the ordinal opens a bracket inside the run
@@ -384,11 +387,9 @@ def repair_book_volume_note(tokens: list[Token], labels: list[str]) -> None:
     run between the title's comma and a bracketed volume is the rest of
     the title -- a journal's volume is never printed "(Vol. N)"."""
     n = len(labels)
-    try:
-        s0 = labels.index("container_title")
-    except ValueError:
+    s0, e = first_run(labels, "container_title")
+    if s0 < 0:
         return
-    e = _run_end(labels, s0)
     if s0 < 2 or tokens[s0 - 1].text != "," or labels[s0 - 2] != "title":
         return
     if e + 2 >= n or tokens[e + 1].text != "(" or tokens[e + 2].text not in _VOL:
@@ -453,11 +454,9 @@ def repair_serial_comma(tokens: list[Token], labels: list[str]) -> None:
     begins with "and" or holds the list's ", and" belongs to the title --
     no venue, series or publisher reads ``..., and ...``."""
     n = len(labels)
-    try:
-        f = labels.index("title")
-    except ValueError:
+    f, e = first_run(labels, "title")
+    if f < 0:
         return
-    e = _run_end(labels, f)
     if e + 2 >= n or tokens[e + 1].text != "," or labels[e + 1] != "O":
         return
     x = e + 2
