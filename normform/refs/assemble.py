@@ -19,7 +19,7 @@ from __future__ import annotations
 import re
 import unicodedata
 from functools import lru_cache
-from itertools import compress, groupby, islice, repeat
+from itertools import compress, groupby, repeat
 from operator import eq, itemgetter
 
 from normform.model import (Date, FieldInfo, Identifier, Kind, Pages, Provenance, Reference,
@@ -27,6 +27,7 @@ from normform.model import (Date, FieldInfo, Identifier, Kind, Pages, Provenance
 from normform.refs import lexicon as lx
 from normform.refs.confidence import record_confidence
 from normform.refs import repairs as rp
+from normform.refs.labeler import ID_LABEL_SET
 from normform.refs.namelist import split_names
 from normform.refs.subgrammars import parse_date, parse_pages, parse_volume
 from normform.refs.tokens import Token
@@ -168,10 +169,7 @@ _GAP_KINDS = frozenset(("punct", "tex"))
 _NO_MERGE = frozenset(("O", "authors", "editors"))
 
 
-def _run_end(labels: list[str], i: int) -> int:
-    """Last index of the run of equal labels that starts at ``i`` (grouped
-    in C: far cheaper than a Python loop over a long title)."""
-    return i + len(list(next(groupby(islice(labels, i, None)))[1])) - 1
+_run_end = rp.run_end         # last index of the run of equal labels that starts at i
 
 
 _first_run = rp.first_run     # first and last index of the first run of a label; (-1, -1) if none
@@ -1225,7 +1223,7 @@ def _ends_book(tokens: list[Token], labels: list[str], crun: _Run) -> bool:
         lab = labels[x]
         if lab == "date":
             seen_date = True
-        elif lab not in ("O", "place") and lab not in _ID_FIELDS:
+        elif lab not in ("O", "place") and lab not in ID_LABEL_SET:
             return False
         x += 1
     words = [t.text for t in tokens[crun.first:crun.last + 1] if t.kind == "word"]
@@ -1808,4 +1806,3 @@ def _kind(text: str, v: dict, idents: list[Identifier], found: dict[str, str]) -
     return Kind.OTHER
 
 
-_ID_FIELDS = frozenset(("doi", "arxiv", "mr", "zbl", "isbn", "issn", "url", "handle"))

@@ -34,10 +34,8 @@ from bisect import bisect_right
 from functools import lru_cache
 
 from normform.model import FieldInfo, Kind
+from normform.refs.labeler import ID_LABEL_SET
 
-# Identifiers are checked by their own grammar and check digits, not by the
-# labeler: they do not count towards the record's labeling confidence.
-_ID_FIELDS = frozenset(("doi", "arxiv", "mr", "zbl", "isbn", "issn", "url", "handle"))
 # What a record of each kind needs before an editor can use it as it is.
 _NEEDED = {Kind.ARTICLE: ("volume", "date"), Kind.BOOK: ("publisher", "date"),
            Kind.CHAPTER: ("container_title", "date"), Kind.PAPER: ("container_title", "date")}
@@ -129,7 +127,8 @@ def product_rule(v: dict, infos: list[FieldInfo], seq_prob: float, penalty: floa
         return 0.0
     conf = 1.0
     for info in infos:
-        if info.field not in _ID_FIELDS:
+        # identifiers are checked by their own grammar and check digits, not by the labeler
+        if info.field not in ID_LABEL_SET:
             conf *= info.confidence
     conf = min(conf, seq_prob ** 0.5 if seq_prob > 0 else 0.0) * penalty
     if not v.get("title"):

@@ -23,6 +23,7 @@ FIELD_LABELS = (
     "volume", "issue", "pages", "date", "publisher", "place", "edition", "genre", "note", "O",
 )
 ID_LABELS = ("doi", "arxiv", "mr", "zbl", "isbn", "issn", "url", "handle")
+ID_LABEL_SET = frozenset(ID_LABELS)   # identifier tokens keep these labels; they are no text field
 
 _local = threading.local()
 

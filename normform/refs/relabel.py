@@ -12,6 +12,7 @@ from __future__ import annotations
 import re
 from bisect import bisect_left
 
+from normform.refs.labeler import ID_LABEL_SET
 from normform.refs.tokens import Token
 
 _MONTH = (r"(?:Jan(?:uary)?|Feb(?:ruary)?|Mar(?:ch)?|Apr(?:il)?|May|June?|July?|Aug(?:ust)?|"
@@ -126,7 +127,7 @@ def repair(text: str, tokens: list[Token], labels: list[str], marg: list[float])
     if ((" - " in text or " -- " in text or "—" in text or " – " in text) and labels[-1] != "pages"
             or text.rstrip().endswith("]")):
         _signature(text, tokens, st(), labels)
-    if labels[-1] == "O" or labels[-1] in _ID_SCHEMES:
+    if labels[-1] == "O" or labels[-1] in ID_LABEL_SET:
         _leftover_tail(tokens, labels)
 
 
@@ -493,7 +494,6 @@ def _page_ranges(tokens: list[Token], labels: list[str], marg: list[float]) -> N
 # cross references, errata ("[Added by the editors]", "(Contributed by N.
 # Quill, Dec 2012)", "See also entry Q000123.").  They belong to no field of
 # the work but must not be lost: they become the note.
-_ID_SCHEMES = frozenset(("doi", "arxiv", "mr", "zbl", "isbn", "issn", "url", "handle"))
 _ATTRIBUTION = re.compile(
     r"(?:^|(?<=[.;,])\s+|(?<=[(\[])\s*|\s[-–—]+\s+)"
     r"(?P<cue>[Ss]ee\s+also|[Cc]f\.|(?:[Aa]dded|[Cc]ontributed|[Cc]ommunicated|[Ee]ntered|[Cc]orrected|[Ss]upplied"
@@ -503,6 +503,13 @@ _ATTRIBUTION = re.compile(
     r"|(?:English|French|German|Russian)\s+transl(?:\.|ation\b)|[Tt]ranslation\s+in\b|[Tt]ransl\.\s+in\b)")
 _FIELD_LABELS = frozenset(("title", "container_title", "volume", "pages", "date", "publisher"))
 _NOT_NOTE_WORDS = frozenset(("pp", "p", "vol", "no", "in", "and", "et", "al", "ed", "eds"))
+
+
+def _to_note(labels: list[str], first: int, last: int) -> None:
+    """Tokens first..last become the note; identifiers keep their scheme."""
+    for j in range(first, last + 1):
+        if labels[j] not in ID_LABEL_SET:
+            labels[j] = "note"
 
 
 def _attribution_gate(text: str) -> bool:
@@ -530,9 +537,7 @@ def _attribution(text: str, tokens: list[Token], starts: list[int], labels: list
                 if tokens[j].text == closer:
                     last = j
                     break
-        for j in range(first, last + 1):
-            if labels[j] not in _ID_SCHEMES:
-                labels[j] = "note"
+        _to_note(labels, first, last)
         return
 
 
@@ -543,7 +548,7 @@ def _leftover_tail(tokens: list[Token], labels: list[str]) -> None:
     "pp" and "and" do not count) after a sentence break or an opening
     bracket."""
     j = len(tokens) - 1
-    while j >= 0 and (labels[j] == "O" or labels[j] in _ID_SCHEMES):
+    while j >= 0 and (labels[j] == "O" or labels[j] in ID_LABEL_SET):
         j -= 1
     if j < 0 or labels[j] not in _FIELD_LABELS and labels[j] not in ("issue", "series", "place", "edition"):
         return
@@ -581,7 +586,7 @@ def _signature(text: str, tokens: list[Token], starts: list[int], labels: list[s
     if m is None or not _SIG_SHAPE.search(m.group("sig")):
         return
     first = bisect_left(starts, m.start("sig"))
-    if m.re is _SIGNED_BRACKET and any(lab in _ID_SCHEMES for lab in labels[first:]):
+    if m.re is _SIGNED_BRACKET and any(lab in ID_LABEL_SET for lab in labels[first:]):
         return    # "[MR2123456]", "[arXiv:...]": an identifier in brackets
     head = labels[:first]
     if first >= len(tokens) or not ("date" in head or "pages" in head or "volume" in head
@@ -589,9 +594,7 @@ def _signature(text: str, tokens: list[Token], starts: list[int], labels: list[s
         return
     if "title" in labels[first:] or "authors" in labels[first:] and "authors" not in head:
         return    # the labeler saw the work's own fields there
-    for j in range(first, len(tokens)):
-        if labels[j] not in _ID_SCHEMES:
-            labels[j] = "note"
+    _to_note(labels, first, len(tokens) - 1)
 
 
 # A place inside the work cited after its fields ("1-20; see p. 12", "1-20,
@@ -624,9 +627,7 @@ def _pinpoint(text: str, tokens: list[Token], starts: list[int], labels: list[st
         if opener == "(":
             first -= 1
             last = next((j for j in range(first + 1, len(tokens)) if tokens[j].text == ")"), last)
-        for j in range(first, last + 1):
-            if labels[j] not in _ID_SCHEMES:
-                labels[j] = "note"
+        _to_note(labels, first, last)
         return
 
 
@@ -638,5 +639,5 @@ def _html_tags(text: str, tokens: list[Token], starts: list[int], labels: list[s
     field; a link inside it stays an identifier."""
     for m in _HTML_TAG.finditer(text):
         for j in _index(tokens, starts, m.start(), m.end()):
-            if labels[j] not in _ID_SCHEMES:
+            if labels[j] not in ID_LABEL_SET:
                 labels[j] = "O"
