@@ -14,6 +14,8 @@ names and comes back as part of them.
 
 from __future__ import annotations
 
+from functools import lru_cache
+
 from normform.model import Name
 from normform.texconv import to_latex, to_unicode
 
@@ -86,8 +88,10 @@ def _words(text: str, ascii: bool, protect: bool) -> str:
                     for w in words)
 
 
+@lru_cache(maxsize=1 << 16)
 def format_name(name: Name, ascii: bool = False) -> str:
-    """BibTeX string for ``name``; ``ascii`` writes non-ASCII letters as TeX commands."""
+    """BibTeX string for ``name``; ``ascii`` writes non-ASCII letters as TeX commands.
+    Memoised: a collection names the same people again and again."""
     if name == ET_AL:
         return "others"
     if name.literal is not None:

@@ -22,7 +22,7 @@ from normform import capitals
 from normform.export.base import Exporter, KeyMaker
 from normform.ids import isbn as _isbn, issn as _issn
 from normform.model import Date, Kind, Reference
-from normform.names import format_name
+from normform.names import format_names
 from normform.readers.bibtex import MASTERS, VERBATIM
 from normform.texconv import protect_literal_braces, to_latex
 
@@ -69,15 +69,6 @@ def encode_verbatim(text: str, ascii: bool = False) -> str:
 @lru_cache(maxsize=1 << 16)
 def _tex(text: str, ascii: bool) -> str:
     return to_latex(text, ascii)
-
-
-@lru_cache(maxsize=1 << 16)
-def _name_tex(name, ascii: bool) -> str:
-    return format_name(name, ascii)
-
-
-def _names_tex(names, ascii: bool) -> str:
-    return " and ".join([_name_tex(n, ascii) for n in names])
 
 
 @lru_cache(maxsize=1 << 15)
@@ -145,7 +136,7 @@ class BibtexExporter(Exporter):
 
         for role, people in (("author", ref.authors), ("editor", ref.editors), ("translator", ref.translators)):
             if people:
-                out.append((role, _names_tex(people, ascii)))
+                out.append((role, format_names(people, ascii)))
         if ref.title:
             out.append(("title", _title_tex(ref.title, tuple(ref.title_protected), ascii)))
         article = ref.kind is Kind.ARTICLE

@@ -422,9 +422,7 @@ def _repair_title_journal(tokens: list[Token], labels: list[str], marg: list[flo
         if "title" not in labels:
             return 1.0
         first, last = _first_run(labels, "title")   # a later title run is a note's
-        nxt = last + 1
-        while nxt < n and labels[nxt] == "O" and tokens[nxt].kind == "punct" and nxt - last < 3:
-            nxt += 1
+        nxt = rp.label_after(tokens, labels, last)
         if nxt >= n or labels[nxt] not in _AFTER_JOURNAL:
             return 1.0
         first = last
@@ -1726,7 +1724,7 @@ def assemble(text: str, tokens: list[Token], labels: list[str], marg: list[float
         values["date"] = Date(literal=found["unpub"])
 
     kind = _kind(text, values, idents, found)
-    rec_conf = record_confidence(values, infos, seq_prob, penalty, kind, etal, tokens, labels, marg)
+    rec_conf = record_confidence(values, infos, seq_prob, penalty, kind)
     prov = Provenance(raw=text, fields=tuple(infos), confidence=round(rec_conf, 4))
     extra: tuple[tuple[str, str], ...] = (("et-al", "true"),) if etal else ()
     return Reference(

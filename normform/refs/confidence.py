@@ -47,11 +47,9 @@ Knots = tuple[tuple[float, ...], tuple[float, ...]]
 
 
 def record_confidence(values: dict, infos: list[FieldInfo], seq_prob: float, penalty: float,
-                      kind: Kind, etal: bool = False, tokens: list | None = None,
-                      labels: list[str] | None = None, marg: list[float] | None = None) -> float:
+                      kind: Kind) -> float:
     """The record confidence in [0, 1].  Also replaces the field
-    confidences in ``infos`` (in place) by calibrated ones.  ``etal``,
-    ``tokens``, ``labels`` and ``marg`` are accepted for future signals."""
+    confidences in ``infos`` (in place) by calibrated ones."""
     model = _model() if CALIBRATE else None
     if model is not None:
         maps = model.field_maps

@@ -53,6 +53,16 @@ def first_run(labels: list[str], label: str) -> tuple[int, int]:
     return i, run_end(labels, i)
 
 
+def label_after(tokens: list[Token], labels: list[str], last: int) -> int:
+    """Index of what follows a run ending at ``last``: past at most two
+    unlabeled punctuation tokens (``Title. | Journal``, ``Title," | Journal``)."""
+    nxt = last + 1
+    n = len(labels)
+    while nxt < n and labels[nxt] == "O" and tokens[nxt].kind == "punct" and nxt - last < 3:
+        nxt += 1
+    return nxt
+
+
 def _place_word(t: Token) -> bool:
     low = t.text.lower()
     return (low in lx.PLACES or low in _REGIONS or (t.kind == "initial" and t.text.isupper())
@@ -276,9 +286,7 @@ def repair_title_into_journal(tokens: list[Token], labels: list[str], marg: list
     f, last = first_run(labels, "title")
     if f < 0:
         return 1.0
-    nxt = last + 1
-    while nxt < n and labels[nxt] == "O" and tokens[nxt].kind == "punct" and nxt - last < 3:
-        nxt += 1
+    nxt = label_after(tokens, labels, last)
     if nxt >= n or labels[nxt] not in _ARTICLE_NEXT:
         return 1.0
     k = last
