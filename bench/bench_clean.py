@@ -131,13 +131,8 @@ STAGE_CPU: dict[str, float] = {}
 
 
 def _timed(name: str, fn):
-    def wrapper(*args, **kwargs):
-        start = time.process_time()
-        try:
-            return fn(*args, **kwargs)
-        finally:
-            STAGE_CPU[name] = STAGE_CPU.get(name, 0.0) + time.process_time() - start
-    return wrapper
+    from cputimer import timed
+    return timed(STAGE_CPU, name, fn)
 
 
 def timed_toolkit():

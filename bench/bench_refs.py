@@ -126,16 +126,9 @@ def stages(lines: list[str]) -> None:
     """CPU time per line of each parser stage (wrapped stage functions)."""
     from normform.refs import api, assemble, kinds, labeler, relabel, validate
 
-    spent: dict[str, float] = {}
+    from cputimer import timed
 
-    def timed(name, fn):
-        def wrapper(*a, **k):
-            c0 = time.process_time()
-            try:
-                return fn(*a, **k)
-            finally:
-                spent[name] = spent.get(name, 0.0) + time.process_time() - c0
-        return wrapper
+    spent: dict[str, float] = {}
 
     saved = [(api, "tokenize"), (labeler, "sequence_features"), (labeler, "label"), (relabel, "repair"),
              (assemble, "assemble"), (kinds, "details"), (validate, "review")]
@@ -145,7 +138,7 @@ def stages(lines: list[str]) -> None:
              "review": "validation"}
     try:
         for mod, name, fn in originals:
-            setattr(mod, name, timed(names[name], fn))
+            setattr(mod, name, timed(spent, names[name], fn))
         c0 = time.process_time()
         for line in lines:
             api.parse_reference(line)
