@@ -13,6 +13,8 @@ the whole input ahead) and memory stays flat.
 from __future__ import annotations
 
 import collections
+import contextlib
+import logging
 import os
 from typing import Iterable, Iterator
 
@@ -145,6 +147,41 @@ def connect_dask(scheduler: str, connect_timeout: float = 20.0):
         raise EngineError(f"cannot reach the Dask scheduler at {scheduler}: {exc}", started=False) from exc
 
 
+class _OneLineLogs(logging.Filter):
+    """Drop the traceback from a ``distributed`` log record (and the record
+    itself when nothing but the traceback was said).
+
+    When the scheduler dies mid-run, the client logs every failed reconnect
+    as a bare multi-screen traceback before :func:`run_dask` can raise; our
+    own one-line message (with the ``--resume`` hint) already says what
+    happened, so the user should not have to scroll past theirs.
+    """
+
+    def filter(self, record: logging.LogRecord) -> bool:
+        if record.exc_info or record.exc_text:
+            record.exc_info = record.exc_text = None
+            return bool(record.getMessage().strip())
+        return True
+
+
+@contextlib.contextmanager
+def _one_line_dask_logs() -> Iterator[None]:
+    # A logger's filters see only its own records, so every distributed
+    # logger that exists by now gets one, and so do the handlers of the
+    # "distributed" logger (its children's records pass through those).
+    quiet = _OneLineLogs()
+    names = ["distributed"] + [n for n in logging.root.manager.loggerDict if n.startswith("distributed.")]
+    loggers = [logging.getLogger(n) for n in names]
+    handlers = [h for h in logging.getLogger("distributed").handlers]
+    for target in loggers + handlers:
+        target.addFilter(quiet)
+    try:
+        yield
+    finally:
+        for target in loggers + handlers:
+            target.removeFilter(quiet)
+
+
 def run_dask(chunks: Iterable[Chunk], settings: Settings, scheduler: str | None = None,
              connect_timeout: float = 20.0, client=None) -> Iterator[tuple[Chunk, list]]:
     """Chunks as futures on a Dask cluster (``client`` from :func:`connect_dask`, or made here)."""
@@ -163,11 +200,12 @@ def run_dask(chunks: Iterable[Chunk], settings: Settings, scheduler: str | None 
         except Exception as exc:  # scheduler or worker lost, or a task failed on a worker
             raise EngineError(f"the Dask cluster failed: {type(exc).__name__}: {_one_line(exc)}") from exc
 
-    try:
+    with _one_line_dask_logs():
         try:
-            threads = sum(client.nthreads().values()) or 1
-        except Exception as exc:
-            raise EngineError(f"the Dask cluster failed: {type(exc).__name__}: {_one_line(exc)}") from exc
-        yield from _ordered(submit, chunks, 2 * threads + 1, result)
-    finally:
-        client.close()
+            try:
+                threads = sum(client.nthreads().values()) or 1
+            except Exception as exc:
+                raise EngineError(f"the Dask cluster failed: {type(exc).__name__}: {_one_line(exc)}") from exc
+            yield from _ordered(submit, chunks, 2 * threads + 1, result)
+        finally:
+            client.close()
