@@ -1391,6 +1391,8 @@ def _repairs(text: str, tokens: list[Token], labels: list[str], marg: list[float
         rp.repair_unlabeled_genre(tokens, labels)
     if "publisher" in labels and "." in words and "container_title" not in labels:
         rp.repair_abbreviated_publisher(tokens, labels)
+    if "series" not in labels and "publisher" in labels and "O" in labels:
+        rp.repair_series_acronym(tokens, labels)
     if "publisher" in labels:
         if not words.isdisjoint(rp.DEPARTMENT_GATE):
             rp.repair_department_publisher(tokens, labels)
@@ -1399,6 +1401,10 @@ def _repairs(text: str, tokens: list[Token], labels: list[str], marg: list[float
             rp.repair_joint_imprint(tokens, labels)
         if not words.isdisjoint(rp.IMPRINT_GATE):
             rp.repair_publisher_place(tokens, labels)
+        if "date" in labels and "," in words:
+            if "container_title" in labels:
+                rp.repair_event_after_proceedings(tokens, labels)
+            rp.repair_place_before_year(tokens, labels)
     return repair
 
 
@@ -1411,6 +1417,7 @@ def assemble(text: str, tokens: list[Token], labels: list[str], marg: list[float
     for r in _runs(tokens, labels, marg):
         runs.setdefault(r.label, []).append(r)
     infos: list[FieldInfo] = []
+    late_infos: list[FieldInfo] = []   # spans of leftovers kept as the note; no part of the record score
     values: dict[str, object] = {}
     notes: list[str] = []
     pub_first = len(runs.get("publisher", ())) >= 2 and _merge_publishers(tokens, labels, runs)
@@ -1562,13 +1569,19 @@ def assemble(text: str, tokens: list[Token], labels: list[str], marg: list[float
         values[field] = value
         conf = best.conf
         if rest:
-            # a second, separate run of the same field: keep it, but doubt it
-            extra = [_strip_field(field, clean_text(raw(r))) for r in rest]
-            extra = [e for e in extra if e]
+            # a second, separate run of the same field: keep it, but doubt it;
+            # its words go to the note rather than vanish (an unknown place
+            # read as a second journal run, a stray remark)
+            extra = [(_strip_field(field, clean_text(raw(r))), r) for r in rest]
+            extra = [(e, r) for e, r in extra if e]
             if extra:
                 if field in ("publisher", "place", "series"):
                     values[field] = value
-                notes.extend(extra) if field == "title" else None
+                for e, r in extra:
+                    if field == "title" or e not in value and e not in notes:
+                        notes.append(e)
+                        if field != "title":
+                            late_infos.append(FieldInfo("note", round(r.conf * 0.8, 4), span(r)))
                 conf *= 0.8
         note_info(field, best, conf)
 
@@ -1725,6 +1738,7 @@ def assemble(text: str, tokens: list[Token], labels: list[str], marg: list[float
 
     kind = _kind(text, values, idents, found)
     rec_conf = record_confidence(values, infos, seq_prob, penalty, kind)
+    infos.extend(late_infos)
     prov = Provenance(raw=text, fields=tuple(infos), confidence=round(rec_conf, 4))
     extra: tuple[tuple[str, str], ...] = (("et-al", "true"),) if etal else ()
     return Reference(

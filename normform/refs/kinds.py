@@ -20,6 +20,10 @@ from normform.refs.relabel import _ACCESS, _REPORT_NO, _VERSION
 # a word of their own, so the English patterns in assembly miss them.
 _THESIS_WORD = re.compile(r"(?i)\b(?:habilitationsschrift|habilitation thesis|habilitation|dissertationsschrift|"
                           r"doktorarbeit|diplomarbeit|masterarbeit|inauguraldissertation)\b")
+# "Thesis (Ph.D.)", "Dissertation (M.Sc.)", "Diss. (Dr. rer. nat.)" are
+# worded as "Ph.D. thesis", the way most styles print the
+# genre and the parser gives it for "Ph.D. thesis, University of ...".
+_BRACKET_DEGREE = re.compile(r"(?P<word>Thesis|Dissertation|Diss\.?)\s*\(\s*(?P<deg>[^()]{2,30}?)\s*\)\Z")
 _WEB_TAIL = re.compile(r"(?i)[,.]?\s*\[?(?:web ?page|website|web site|online)\]?\Z")
 
 
@@ -37,6 +41,15 @@ def details(ref: Reference, text: str) -> Reference:
             if title and title.lower().endswith(word.lower()) and len(title) > len(word) + 3:
                 # "Zählen von Federn, Habilitationsschrift": the genre is no title word
                 changes["title"] = title[: -len(word)].rstrip(" ,.;:")
+    if ref.genre and "(" in ref.genre:
+        info = ref.provenance.info("genre") if ref.provenance is not None else None
+        typed = text[info.span.start:info.span.end] if info is not None and info.span is not None else ref.genre
+        m = _BRACKET_DEGREE.match(typed.rstrip(" ,.;:-–—")) or _BRACKET_DEGREE.match(ref.genre)
+        if m:
+            word = "thesis" if m.group("word") == "Thesis" else "dissertation"
+            changes["genre"] = m.group("deg") + " " + word
+            if ref.kind is not Kind.THESIS and not ref.container_title:
+                changes["kind"] = Kind.THESIS   # ("Diss." is no thesis word of the kind rules)
     if ref.kind is Kind.WEBPAGE and ref.title:
         m = _WEB_TAIL.search(ref.title)
         if m and m.start() > 3:

@@ -302,6 +302,24 @@ lecture notes texts graduate studies series ser. grundlehren encyclopedia tracts
 surveys universitext progress progr. contemporary contemp. colloquium ergebnisse lect. notes
 """.split())
 
+# Book series cited by their acronym alone ("LNM 1234, Springer"): common
+# practice in mathematics and computer science.  Not a labeler feature (the
+# model's features never read this table, so extending it needs no
+# retraining); the repairs use it to file the acronym as the series.  The
+# record keeps the acronym as typed -- the parser never expands or rewrites
+# a name it read -- and the full title here is for the reader of this table
+# (and for a later authority match, if one wants it).
+SERIES_ACRONYMS: dict[str, str] = {
+    "LNM": "Lecture Notes in Mathematics",
+    "LNCS": "Lecture Notes in Computer Science",
+    "LNAI": "Lecture Notes in Artificial Intelligence",
+    "LNP": "Lecture Notes in Physics",
+    "GTM": "Graduate Texts in Mathematics",
+    "UTM": "Undergraduate Texts in Mathematics",
+    "LIPIcs": "Leibniz International Proceedings in Informatics",
+    "EPTCS": "Electronic Proceedings in Theoretical Computer Science",
+}
+
 GENRE_WORDS: frozenset[str] = frozenset("""
 thesis dissertation phd ph.d. ph. d. doctoral master's masters habilitation diploma report
 technical tech. preprint manuscript lecture notes unpublished communication personal

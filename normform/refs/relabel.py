@@ -104,6 +104,10 @@ def repair(text: str, tokens: list[Token], labels: list[str], marg: list[float])
         _report_number(text, tokens, st(), labels)
     if "rans" in text or "r. by" in text:
         _translators(text, tokens, st(), labels, marg)
+    if "rans" in text or "tr." in text or "Tr." in text:
+        _translators_after(text, tokens, st(), labels, marg)
+    if "hesis" in text or "issert" in text or "Diss." in text:
+        _thesis_degree(text, tokens, st(), labels)
     if " by " in text:
         _title_before_role(text, tokens, st(), labels, marg)
     if "(" in text and not ("container_title" in labels and "volume" in labels):
@@ -284,8 +288,10 @@ def _translators(text, tokens, starts, labels, marg) -> None:
                 break
         if not any(tokens[x].kind == "word" and tokens[x].text[:1].isupper() for x in range(j, k)):
             continue
-        if any(labels[x] in ("authors", "editors") for x in range(j, k)) and labels[idx[0]] in ("authors", "editors"):
+        if any(labels[x] in ("authors", "editors") for x in range(j, k)) and labels[idx[0]] in ("authors", "editors") \
+                and not (idx[0] > 0 and tokens[idx[0] - 1].text == "("):
             continue   # the labeler read "trans." inside a name list: unsure, leave it
+            # (unless the phrase opens a bracket, "(transl. C. D. Inkwell)": a role, plainly)
         # "translated (from the Russian) by": words of the phrase, no name;
         # "trans." / "transl.": part of the run, the name splitter drops it
         abbrev = tokens[idx[0]].text in ("trans", "transl")
@@ -294,6 +300,100 @@ def _translators(text, tokens, starts, labels, marg) -> None:
         for x in range(j, k):
             labels[x] = "translators"
             marg[x] = min(marg[x], 0.9)
+
+
+# The role printed after the names, as "(eds.)" is: "(C. D. Inkwell,
+# trans.)", "(C. D. Inkwell, transl.)", "(C. D. Inkwell, tr.)", "C. D.
+# Inkwell (trans.)", "..., C. D. Inkwell, trans., Springer" (common practice
+# in humanities styles).  After a comma or an opening bracket, and closed by
+# a bracket, a separator or the end, "Trans." cannot start a journal name
+# ("Trans. Amer. Math. Soc." goes on with words).
+_TRANSL_AFTER = re.compile(r"(?:,\s*|\s*\(\s*)(?:[Tt]ransl?|[Tt]r|[Tt]ranslators?)\.?(?:\s*\)|(?=\s*[,;]|\s*\.?\s*\Z))")
+
+
+def _name_piece(t: Token) -> bool:
+    return t.kind == "initial" or t.kind == "word" and (t.text[:1].isupper() or t.text in _NAME_GLUE) \
+        or t.kind == "dash" and t.text == "-"
+
+
+def _translators_after(text, tokens, starts, labels, marg) -> None:
+    """Names followed by their role word (``(C. D. Inkwell, trans.)``): the
+    names are the translators, the role word and the brackets no field.
+    Inside a bracket the names run back to the opening bracket (several
+    names, commas between them); without one, back to the separator before
+    them, and they must look like a person's name (an initial, or a run the
+    labeler read as names)."""
+    for m in _TRANSL_AFTER.finditer(text):
+        idx = _index(tokens, starts, m.start(), m.end())
+        if not idx or idx[0] == 0:
+            continue
+        role_first = idx[0]
+        closes = text[m.start():m.end()].rstrip().endswith(")")
+        opens = tokens[role_first].text == "("   # "Inkwell (trans.)"
+        e = role_first - 1
+        a = e
+        inside = closes and not opens
+        while a >= 0 and (_name_piece(tokens[a]) or inside and tokens[a].text == ","):
+            a -= 1
+        if a == e and opens and closes:
+            _to_note(labels, idx[0], idx[-1])   # "Title (trans.)": a translation, the translator unnamed
+            continue
+        if inside:
+            if a < 0 or tokens[a].text not in "(;":
+                continue    # ("(E. Vellum, ed.; C. D. Inkwell, trans.)": from the semicolon)
+        elif a >= 0 and tokens[a].text not in ",.;:(":
+            continue
+        first = a + 1
+        while first <= e and tokens[first].text == ",":
+            first += 1
+        if not inside and a >= 2 and tokens[a].text == "," and first <= e \
+                and all(tokens[x].kind == "initial" for x in range(first, e + 1)) \
+                and tokens[a - 1].kind == "word" and tokens[a - 1].text[:1].isupper() \
+                and tokens[a - 2].text in ",.;:(":
+            first = a - 1    # "Inkwell, C. D. (trans.)": family name first
+        names = range(first, e + 1)
+        if not any(tokens[x].kind == "word" and len(tokens[x].text) > 1 and tokens[x].text[:1].isupper()
+                   for x in names):
+            continue
+        if not inside and (len(names) > 6 or not any(tokens[x].kind == "initial"
+                                                     or labels[x] in ("authors", "editors", "translators")
+                                                     for x in names)):
+            if opens and closes:
+                _to_note(labels, idx[0], idx[-1])   # "Nib Theory (trans.)": no person named
+            continue
+        if first == 0:
+            continue   # the names that open the line ("A. Quill (trans.), Title"): leave them to the labeler
+        for x in names:
+            labels[x] = "translators"
+            marg[x] = min(marg[x], 0.9)
+        for x in idx:
+            if labels[x] not in ID_LABEL_SET:
+                labels[x] = "O"
+        if inside and labels[a] not in ID_LABEL_SET:
+            labels[a] = "O"
+
+
+# Degrees as theses name them (common practice): "Ph.D.", "PhD", "M.Sc.",
+# "M.A.", "M.Phil.", "D.Phil.", "Sc.D.", "Dr. rer. nat.", "Master's".
+_DEGREE = (r"(?:Ph\.?\s?D|D\.?\s?Phil|M\.?\s?Phil|M\.?\s?Sc|B\.?\s?Sc|Sc\.?\s?D|D\.?\s?Sc|M\.?\s?A|M\.?\s?S"
+           r"|B\.?\s?A|Dr\.(?:\s?(?:rer|phil|sc|math|techn|ing)\.(?:\s?(?:nat|pol|math|techn)\.)?)?"
+           r"|Doctoral|Master'?s|Masters|Diploma|Habilitation)\.?")
+# "Thesis (Ph.D.)--University of ...", "Diss. (Dr.
+# rer. nat.)", and "M.Sc. thesis": the degree goes with the genre word
+_THESIS_DEGREE = re.compile(r"\b(?:(?:Thesis|Dissertation|Diss\.)\s*\(\s*" + _DEGREE + r"\s*\)"
+                            r"|(?<![\w.])" + _DEGREE + r"\s+(?:[Tt]hesis|[Dd]issertation)\b)")
+
+
+def _thesis_degree(text, tokens, starts, labels) -> None:
+    """The genre phrase of a thesis with its degree is one genre run (the
+    labeler splits "Thesis (Ph.D.)" at the bracket and reads "M.Sc." as a
+    title word); kinds.details words the bracketed form as "Ph.D. thesis"."""
+    for m in _THESIS_DEGREE.finditer(text):
+        idx = _index(tokens, starts, m.start(), m.end())
+        if not idx or idx[0] == 0 or any(labels[x] in ID_LABEL_SET for x in idx):
+            continue
+        for x in idx:
+            labels[x] = "genre"
 
 
 def _title_before_role(text, tokens, starts, labels, marg) -> None:

@@ -11,6 +11,7 @@ used here are not labeler features, so changing them needs no retraining.
 from __future__ import annotations
 
 import re
+from itertools import compress
 
 from normform.refs import lexicon as lx
 from normform.refs.tokens import Token
@@ -1479,3 +1480,197 @@ def repair_part_in_book(tokens: list[Token], labels: list[str]) -> None:
         for x in range(i + 1, j):
             labels[x] = "container_title"
         return
+
+
+_ACRONYM = re.compile(r"[A-Z][A-Z&]{1,6}\Z")
+_TWO_CAPS = re.compile(r"[A-Z][A-Za-z&]{0,6}[A-Z]")
+_ACRONYM_NUM_KEYS = frozenset((",", ".", "vol", "Vol", "volume", "Volume", "no", "No", "Nr", "nr"))
+_ACRONYM_AFTER = frozenset(",.;)")
+
+
+def repair_series_acronym(tokens: list[Token], labels: list[str]) -> None:
+    """``Title, LNM 1234, Springer, 1987`` (``GTM 52``, ``(LNCS 4567)``,
+    ``Springer LNM 1234``): a book series cited by its acronym alone, the
+    number right after it.  The labeler finds the number (as the series
+    number, a volume, or even a year) but leaves the acronym unlabeled, and
+    the series is lost.  In a record with a publisher, an unlabeled
+    all-capitals word before a lone number is the series, kept as typed
+    (``lexicon.SERIES_ACRONYMS`` lists the usual ones, which pass the
+    stricter tests too: a known acronym may take over a journal-like
+    volume).  Region codes, roman numerals and report numbers are left
+    alone."""
+    n = len(tokens)
+    # candidates found in C: a capitalised word with a second capital ("LNM", "LIPIcs")
+    for i in compress(range(n), map(_TWO_CAPS.match, [t.text for t in tokens])):
+        t = tokens[i]
+        if i == 0 or i == n - 1 or t.kind != "word":
+            continue
+        known = t.text in lx.SERIES_ACRONYMS
+        if known and labels[i] in ("title", "container_title") and i + 2 < n and tokens[i - 1].text == "(" \
+                and tokens[i + 1].kind == "num" and tokens[i + 2].text == ")" and labels[i - 1] == labels[i] \
+                and (i + 3 == n or labels[i + 3] != labels[i]):
+            # "Title (LNCS 4567), Springer": the bracket read as the end of the title
+            labels[i - 1] = labels[i + 2] = "O"
+            labels[i] = "series"
+            labels[i + 1] = "series_number"
+            return
+        if labels[i] != "O":
+            continue
+        if not known and (not _ACRONYM.match(t.text) or _ROMAN_WORD.fullmatch(t.text)
+                          or t.text.lower() in _REGIONS or t.text.lower() in lx.PLACES or "genre" in labels):
+            continue
+        if tokens[i - 1].text not in ",.;(:" and labels[i - 1] != "publisher":
+            continue
+        j = i + 1
+        while j < n and j - i <= 3 and tokens[j].text in _ACRONYM_NUM_KEYS and labels[j] == "O":
+            j += 1
+        if j >= n or tokens[j].kind != "num" or not tokens[j].text.isdigit() or len(tokens[j].text) > 5:
+            continue
+        if j + 1 < n and tokens[j + 1].text not in _ACRONYM_AFTER:
+            continue
+        lab = labels[j]
+        if _YEARLIKE.fullmatch(tokens[j].text) and not (known and lab in ("series_number", "volume")):
+            continue    # "AMS 1998", "ICALP 2005": a publisher or a meeting and its year
+        if lab == "date":
+            pass
+        elif lab == "volume":
+            if not known and "container_title" in labels:
+                continue    # "JCTA 12": a journal's volume
+        elif lab not in ("series_number", "O"):
+            continue
+        labels[i] = "series"
+        labels[j] = "series_number"
+        return
+
+
+# Words that make a comma piece of an imprint an organisation, not a place
+# (common practice in imprints: "Quill Press, Quillfeather Society, 1990").
+_NOT_PLACE = (lx.PUBLISHER_WORDS - lx.PLACES) | lx.SERIES_WORDS | lx.GENRE_WORDS | frozenset("""
+university univ univ. universität universite université università universidad department dept dept.
+school college centre center laboratory laboratories lab foundation group books editions éditions
+edizioni verlag media house sons brothers bros company corporation corp corp. limited inc llc gmbh press
+publishers publisher publishing publications printing printers office bureau academy akademie academia
+council committee club institut instituto institute research conference proceedings symposium workshop
+meeting congress journal series volume vol edition edn ed eds editor editors lectures lecture library
+classics paperbacks textbooks handbook reports papers memoirs annals transactions bulletin letters review
+magazine quarterly news chapter part
+""".split())
+_KNOWN_PUBLISHERS = frozenset(p.lower() for p, _ in lx.PUBLISHERS)
+_PLACE_GLUE = frozenset(("upon", "on", "am", "an", "der", "de", "sur", "en", "im", "del", "la", "le", "les", "di"))
+# a publisher named with one of these is a publisher beyond doubt
+_PUBLISHER_HEAD = frozenset("""press verlag publishers publishing publications books university univ. society
+soc. institute inc. inc ltd. ltd co. gmbh company""".split())
+# what the labeler may have made of an unknown place
+_PLACE_FROM = frozenset(("O", "container_title", "series", "note", "title", "publisher"))
+
+
+def _place_like(tokens: list[Token], a: int, b: int) -> bool:
+    """Tokens a..b could be a place name: one to five capitalised words
+    (with "upon", "am", "-" between them), no organisation word, no known
+    publisher's name."""
+    if b < a or b - a > 5:
+        return False
+    words = []
+    for k in range(a, b + 1):
+        t = tokens[k]
+        if t.kind == "word" and t.text[:1].isupper() and t.text.replace("-", "").replace("'", "").isalpha():
+            words.append(t.text)
+        elif k > a and (t.kind == "dash" and t.text == "-" or t.kind == "word" and t.text in _PLACE_GLUE):
+            continue
+        else:
+            return False
+    if not words or any(w.lower() in _NOT_PLACE or w.lower().rstrip(".") in _NOT_PLACE for w in words):
+        return False
+    if all(w.isupper() or w.lower() in _REGIONS for w in words):
+        return False   # "Springer New York, NY": a region code qualifies the imprint (repair_publisher_place)
+    typed = "".join((" " if k > a and tokens[k].start > tokens[k - 1].end else "") + tokens[k].text
+                    for k in range(a, b + 1)).lower()
+    # "North-Holland" is a publisher's name, as typed
+    return typed not in _KNOWN_PUBLISHERS and not any(w in _NOT_PLACE for w in typed.split())
+
+
+def _date_next(tokens: list[Token], labels: list[str], b: int) -> bool:
+    """The year follows token b, past a separator (", 1996", " (1996)")."""
+    n = len(labels)
+    k = b + 1
+    while k < n and labels[k] == "O" and tokens[k].text in ",.;:(" and k - b <= 2:
+        k += 1
+    return k < n and k > b + 1 and labels[k] == "date"
+
+
+def repair_place_before_year(tokens: list[Token], labels: list[str]) -> None:
+    """``Quill Press, Ink Harbour, 1996``: a capitalised run between the
+    publisher and the year is the imprint's place, known place name or not
+    (the imprint repairs above only know the lexicon's places).  The
+    labeler reads an unknown place as a second journal or title run, or
+    into the publisher after a comma; either way it was lost or glued.
+    Only when the record has no place after its publisher yet; a meeting's
+    place inside a proceedings title "(Dovecote, 1995)" is not touched
+    (it is no run of its own after the publisher)."""
+    n = len(labels)
+    i = n - 1
+    while i >= 0 and labels[i] != "publisher":
+        i -= 1
+    if i < 0:
+        return
+    e = i
+    while i > 0 and labels[i - 1] == "publisher":
+        i -= 1
+    if "place" in labels[e + 1:] or "place" in labels[max(0, i - 4):i]:
+        return
+    # a run after the publisher's comma
+    if e + 2 < n and tokens[e + 1].text == "," and labels[e + 1] in ("O", "publisher"):
+        a = e + 2
+        b = a
+        while b + 1 < n and labels[b + 1] == labels[a] and tokens[b + 1].text not in ",.;:()":
+            b += 1
+        if labels[a] in _PLACE_FROM and labels[a] != "publisher" and _place_like(tokens, a, b) \
+                and _date_next(tokens, labels, b):
+            for k in range(a, b + 1):
+                labels[k] = "place"
+            return
+    # the last comma piece of the publisher run itself
+    c = e
+    while c > i and tokens[c].text != ",":
+        c -= 1
+    if c <= i + 0 or c == e:
+        return
+    head = [t.text.lower() for t in tokens[i:c]]
+    if not any(w in _PUBLISHER_HEAD for w in head) and " ".join(head) not in _KNOWN_PUBLISHERS:
+        return
+    if any(tokens[k].text == "," for k in range(i, c)):
+        return   # "Harcourt, Brace, Ink Harbour": the comma pieces cannot be told apart
+    if _place_like(tokens, c + 1, e) and _date_next(tokens, labels, e):
+        labels[c] = "O"
+        for k in range(c + 1, e + 1):
+            labels[k] = "place"
+
+
+_MEETING_WORDS = frozenset("conference proceedings symposium workshop congress colloquium meeting proc conf symp "
+                           "seminar school".split())
+
+
+def repair_event_after_proceedings(tokens: list[Token], labels: list[str]) -> None:
+    """``Proceedings of the Quill Symposium, Dovecote, 1995, Quill Press,
+    Ink Harbour, 1996``: the place and year right after a proceedings title
+    are the meeting's, when the book's own publisher and year follow -- the
+    unbracketed form of :func:`repair_event_bracket`.  They stay in the
+    proceedings title; the meeting's place is no place of publication, and
+    its year no year of the record."""
+    s0 = labels.index("container_title")
+    e = run_end(labels, s0)
+    n = len(labels)
+    intro = s0 >= 1 and tokens[s0 - 1].text in ("In", "in") or s0 >= 2 and tokens[s0 - 1].text == ":" \
+        and tokens[s0 - 2].text in ("In", "in")
+    if not intro and not any(t.text.lower().rstrip(".") in _MEETING_WORDS for t in tokens[s0:e + 1]):
+        return
+    x = e + 1
+    while x < n and x - e < 12 and (labels[x] in ("place", "date") or labels[x] == "O" and tokens[x].text == ","):
+        x += 1
+    if x >= n or labels[x] != "publisher" or "date" not in labels[e + 1:x] or "date" not in labels[x:]:
+        return
+    y = x - 1
+    while y > e and labels[y] == "O":
+        y -= 1
+    for k in range(e + 1, y + 1):
+        labels[k] = "container_title"
