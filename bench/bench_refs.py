@@ -1,7 +1,7 @@
 #!/usr/bin/env python3
 """Throughput of the reference parser, and pybtex on the same records.
 
-    python bench/bench_refs.py [--n 3000] [--file LINES.txt] [--stages]
+    python bench/bench_refs.py [--n 3000] [--file LINES.txt] [--stages] [--crfsuite]
 
 Records are invented by ``scripts/synth_refs.py`` (fixed seed); each is
 written once as a free-form line (legacy templates) and once as a BibTeX
@@ -14,7 +14,9 @@ streaming means the two peaks are about equal.
 ``--stages`` also prints where the time goes per line (tokenizer, feature
 strings, python-crfsuite, label repairs, assembly, checks), timed by
 wrapping the parser's own stage functions, so the figures follow the real
-pipeline.
+pipeline.  ``--crfsuite`` splits python-crfsuite's own share call by call
+(attribute lookup, Viterbi, marginals, probability) on the parser's real
+feature lists: no parser built on it with these features can be faster.
 """
 
 from __future__ import annotations
@@ -68,6 +70,8 @@ def main(argv=None) -> int:
     ap.add_argument("--n", type=int, default=3000)
     ap.add_argument("--file", help="time these lines instead (no pybtex ratio)")
     ap.add_argument("--stages", action="store_true", help="also print the time per line of each stage")
+    ap.add_argument("--crfsuite", action="store_true",
+                    help="also split python-crfsuite's own time (attribute lookup, Viterbi, marginals)")
     args = ap.parse_args(argv)
     try:
         os.sched_setaffinity(0, {sorted(os.sched_getaffinity(0))[0]})   # one core
@@ -107,6 +111,8 @@ def main(argv=None) -> int:
 
     if args.stages:
         stages(lines)
+    if args.crfsuite:
+        crfsuite_split(lines, theirs_cpu if bibtex is not None else None)
 
     # streaming memory: peak while streaming N lines vs 4N lines
     peaks = []
@@ -152,6 +158,44 @@ def stages(lines: list[str]) -> None:
     print(f"per line, CPU ({n} lines, {total / n * 1e6:.0f} us in all):")
     for name, sec in sorted(spent.items(), key=lambda kv: -kv[1]):
         print(f"  {name:42s} {sec / n * 1e6:7.1f} us  {100 * sec / total:5.1f} %")
+
+
+def crfsuite_split(lines: list[str], pybtex_cpu: float | None) -> None:
+    """python-crfsuite's own CPU per line, call by call, on the parser's real
+    feature lists: the floor under any parser built on it with these features."""
+    from normform.refs import features, labeler
+    from normform.refs.tokens import tokenize
+
+    tagger = labeler._tagger()
+    xs = [features.sequence_features(toks, line) for line in lines if (toks := tokenize(line))]
+    n = len(xs)
+    attrs = sum(len(f) for x in xs for f in x)
+    spent = {}
+    c0 = time.process_time()
+    for x in xs:
+        tagger.set(x)
+    spent["set (attribute strings -> model ids)"] = time.process_time() - c0
+    for x in xs:
+        tagger.set(x)
+        c0 = time.process_time()
+        y = tagger.tag()
+        c1 = time.process_time()
+        for i, lab in enumerate(y):
+            tagger.marginal(lab, i)
+        c2 = time.process_time()
+        tagger.probability(y)
+        c3 = time.process_time()
+        spent["tag (Viterbi)"] = spent.get("tag (Viterbi)", 0.0) + c1 - c0
+        spent["marginals (forward-backward)"] = spent.get("marginals (forward-backward)", 0.0) + c2 - c1
+        spent["sequence probability"] = spent.get("sequence probability", 0.0) + c3 - c2
+    total = sum(spent.values())
+    print(f"python-crfsuite alone ({n} lines, {sum(map(len, xs)) / n:.1f} tokens and {attrs / n:.0f} "
+          f"attributes a line): {total / n * 1e6:.0f} us a line = at most {n / total:,.0f} lines/s")
+    for name, sec in spent.items():
+        print(f"  {name:42s} {sec / n * 1e6:7.1f} us")
+    if pybtex_cpu:
+        print(f"pybtex needs {pybtex_cpu / len(lines) * 1e6:.0f} us a record: python-crfsuite alone "
+              f"allows at most {pybtex_cpu / len(lines) / (total / n):.2f}x pybtex")
 
 
 if __name__ == "__main__":
