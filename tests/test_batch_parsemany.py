@@ -112,17 +112,45 @@ def test_bounding_memory_empties_memos_but_not_loaders():
 SINGLE = fake.TOOLKIT
 
 
-def test_after_emptying_caches_a_worker_waits_for_new_growth(monkeypatch):
-    # emptied caches give memory back to Python's allocator, not the system: without the
-    # headroom a worker over the budget emptied them after every chunk (cold caches for good)
-    seen = iter([120.0, 120.0,      # over the budget of 100: empty; 120 right after
-                 125.0,             # under 120 + 10: keep the caches
-                 131.0, 129.0])     # grown past it: empty again
-    monkeypatch.setattr(process, "_resident_mb", lambda: next(seen))
-    monkeypatch.setattr(process, "_floor_mb", None)
+def test_after_emptying_caches_a_worker_waits_until_they_hold_as_much_again(monkeypatch):
+    # emptied caches give memory back to Python's allocator, not the system, so resident
+    # memory stays high: after the budget is first reached, the live-object count decides
+    resident = iter([90.0, 120.0])
+    blocks = iter([1_000_000,           # noted when the budget is reached (120 MB > 100)
+                   600_000,             # caches refilling: keep them
+                   999_999,             # not quite back: keep them
+                   1_000_000, 1_200_000])   # back at the count, and past it: empty
+    monkeypatch.setattr(process, "_resident_mb", lambda: next(resident))
+    monkeypatch.setattr(sys, "getallocatedblocks", lambda: next(blocks))
+    monkeypatch.setattr(process, "_blocks_at_budget", None)
     monkeypatch.setattr(process, "CACHE_BUDGET_MB", 100)
-    monkeypatch.setattr(process, "CACHE_HEADROOM_MB", 10)
-    assert process.bound_caches() > 0
+    assert process.bound_caches() == 0          # 90 MB: under the budget, nothing noted
+    assert process._blocks_at_budget is None
+    assert process.bound_caches() > 0           # 120 MB: over it, count noted
+    assert process._blocks_at_budget == 1_000_000
+    assert process.bound_caches() == 0
     assert process.bound_caches() == 0
     assert process.bound_caches() > 0
-    assert process._floor_mb == 129.0
+    assert process.bound_caches() > 0
+    assert process._blocks_at_budget == 1_000_000   # the mark does not move (no ratchet)
+
+
+def test_memory_stays_bounded_over_many_distinct_lines(monkeypatch):
+    """Real objects, no doubles: with a small budget, chunk after chunk of new
+    distinct lines leaves the live-object count near the mark, not growing with the input."""
+    from normform.batch.inputs import Item
+
+    monkeypatch.setattr(process, "_blocks_at_budget", None)
+    monkeypatch.setattr(process, "CACHE_BUDGET_MB", 0)      # the first chunk reaches it
+    settings = process.Settings()
+    counts = []
+    for k in range(12):
+        items = [Item("ref", f"Quillby{k}x{i}, Tallies of kind {k * 100 + i} in grid {i}, J. Stuff {k}, {1950 + i}",
+                      "x.txt", i) for i in range(150)]
+        process.process_chunk(items, 1 + 150 * k, settings)
+        counts.append(sys.getallocatedblocks())
+    mark = process._blocks_at_budget
+    assert mark is not None
+    # every chunk ends at or below the mark (with nothing emptied the count passes it
+    # by the third chunk and grows by ~3,000 blocks a chunk)
+    assert max(counts) <= mark, (mark, counts)

@@ -319,13 +319,15 @@ def process_chunk(items: list[Item], first_seq: int, settings: Settings) -> dict
 # is repeated), so memory stays flat in the input size.
 CACHE_BUDGET_MB = 100
 # Emptied caches hand their memory back to Python's allocator, not to the
-# system: resident memory stays near the budget and refilling the caches
-# reuses it.  So after emptying them a worker waits until it has grown this
-# much more before emptying them again -- otherwise, once over the budget,
-# it emptied them after every chunk and ran with cold caches from then on.
-# None: empty them whenever over the budget.
-CACHE_HEADROOM_MB: float | None = 10
-_floor_mb: float | None = None      # resident memory right after the last emptying
+# system: resident memory stays near the budget, and refilling the caches
+# reuses it.  So resident memory cannot tell when to empty them again (a
+# rule "grown N MB past the level after emptying" ratcheted up by N MB at
+# every emptying: workers crept from 80 to 125 MB over 400,000 lines).
+# What can tell is the count of live objects: when the budget is first
+# reached, the count of allocated blocks is noted, and from then on the
+# caches are emptied whenever the live blocks are back at that count --
+# the caches hold as much as they did when the budget was reached, no more.
+_blocks_at_budget: int | None = None
 
 
 def _resident_mb() -> float | None:
@@ -337,17 +339,20 @@ def _resident_mb() -> float | None:
 
 
 def bound_caches(budget_mb: float | None = None) -> int:
-    """Empty every memo ``functools.lru_cache`` in normform modules when over ``budget_mb``
-    (default: the budget, with the headroom after an emptying); returns how many."""
-    global _floor_mb
-    resident = _resident_mb()
-    if resident is None:
-        return 0
-    limit = CACHE_BUDGET_MB if budget_mb is None else budget_mb
-    if budget_mb is None and CACHE_HEADROOM_MB is not None and _floor_mb is not None:
-        limit = max(limit, _floor_mb + CACHE_HEADROOM_MB)
-    if resident <= limit:
-        return 0
+    """Empty every memo ``functools.lru_cache`` in normform modules when over
+    ``budget_mb``; with no argument, when over the budget the first time and
+    then whenever the live objects are back at their count of that moment.
+    Returns how many caches were emptied."""
+    global _blocks_at_budget
+    if budget_mb is None and _blocks_at_budget is not None:
+        if sys.getallocatedblocks() < _blocks_at_budget:
+            return 0
+    else:
+        resident = _resident_mb()
+        if resident is None or resident <= (CACHE_BUDGET_MB if budget_mb is None else budget_mb):
+            return 0
+        if budget_mb is None:
+            _blocks_at_budget = sys.getallocatedblocks()
     cleared = 0
     for name, module in list(sys.modules.items()):
         if not (name == "normform" or name.startswith("normform.")) or module is None:
@@ -358,7 +363,6 @@ def bound_caches(budget_mb: float | None = None) -> int:
                     continue
                 value.cache_clear()
                 cleared += 1
-    _floor_mb = _resident_mb()
     return cleared
 
 
