@@ -1391,7 +1391,7 @@ def _repairs(text: str, tokens: list[Token], labels: list[str], marg: list[float
         rp.repair_unlabeled_genre(tokens, labels)
     if "publisher" in labels and "." in words and "container_title" not in labels:
         rp.repair_abbreviated_publisher(tokens, labels)
-    if "series" not in labels and "publisher" in labels and "O" in labels:
+    if "series" not in labels and "publisher" in labels and "O" in labels and rp.SERIES_ACRONYM_GATE.search(text):
         rp.repair_series_acronym(tokens, labels)
     if "publisher" in labels:
         if not words.isdisjoint(rp.DEPARTMENT_GATE):

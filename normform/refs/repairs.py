@@ -1484,6 +1484,8 @@ def repair_part_in_book(tokens: list[Token], labels: list[str]) -> None:
 
 _ACRONYM = re.compile(r"[A-Z][A-Z&]{1,6}\Z")
 _TWO_CAPS = re.compile(r"[A-Z][A-Za-z&]{0,6}[A-Z]")
+# the gate for the whole line: a word opening with two capitals close together
+SERIES_ACRONYM_GATE = re.compile(r"(?<![A-Za-z])[A-Z][A-Za-z&]{0,6}[A-Z]")
 _ACRONYM_NUM_KEYS = frozenset((",", ".", "vol", "Vol", "volume", "Volume", "no", "No", "Nr", "nr"))
 _ACRONYM_AFTER = frozenset(",.;)")
 
