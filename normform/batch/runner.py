@@ -83,6 +83,16 @@ def _check_outputs_do_not_clobber(paths: list[Path], outdir: Path) -> None:
             raise CleanError(f"input {path} is inside the work directory of {outdir}")
 
 
+def _check_library(against: str | None, outdir: Path) -> None:
+    """The --against library is an input too: no output may be it (``--against OUT/references.bib``)."""
+    if against is None:
+        return
+    for name in OUTPUTS:
+        if inputs.same_file(Path(against), outdir / name):
+            raise CleanError(f"--against {against} is also an output ({outdir / name}); the library is "
+                             "never written to: choose another -o or copy the library elsewhere")
+
+
 def clean(paths_in: list[str], outdir: str | Path, *, threshold: float = 0.9, jobs: int | None = None,
           engine: str = "local", scheduler: str | None = None, resume: bool = False,
           quiet: bool = False, chunk_size: int = 500, report_rows: int = 20000,
@@ -113,6 +123,7 @@ def clean(paths_in: list[str], outdir: str | Path, *, threshold: float = 0.9, jo
     if against is not None and not Path(against).exists():
         raise CleanError(f"--against {against}: no such file")
     _check_outputs_do_not_clobber(paths, outdir)
+    _check_library(against, outdir)
     # Connect before anything is written: a wrong address leaves no work directory behind.
     client = engines.connect_dask(scheduler, dask_timeout) if engine == "dask" else None
     outdir.mkdir(parents=True, exist_ok=True)

@@ -9,7 +9,6 @@ Exit 0 clean, 1 data errors, 2 usage or I/O errors.  Never overwrites its input.
 from __future__ import annotations
 
 import argparse
-import os
 import sys
 
 
@@ -23,13 +22,6 @@ def configure(parser: argparse.ArgumentParser) -> None:
                         help="input format when the file name does not say")
 
 
-def _same_file(a: str, b: str) -> bool:
-    try:
-        return os.path.samefile(a, b)
-    except OSError:
-        return os.path.abspath(a) == os.path.abspath(b)
-
-
 def run(args: argparse.Namespace) -> int:
     from normform.cli import UsageError
     from normform.errors import PositionedError
@@ -38,8 +30,9 @@ def run(args: argparse.Namespace) -> int:
         raise UsageError("--style applies only to --to text")
     if args.latex and args.to != "bibtex":
         raise UsageError("--latex applies only to --to bibtex")
-    if args.output and args.input != "-" and _same_file(args.input, args.output):
-        raise UsageError(f"refusing to overwrite the input file {args.input}")
+    from normform.safety import refuse_overwrite
+
+    refuse_overwrite([("-o", args.output)], [("INPUT", args.input)])
     if args.input == "-":
         text, path = sys.stdin.read(), "<stdin>"
     else:

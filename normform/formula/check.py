@@ -86,31 +86,40 @@ class Verdict:
 # ------------------------------------------------------------------ helpers --
 
 def _short(value: Any, digits: int = 40) -> str:
-    text = str(value)
+    from normform.formula.digits import term_text
+
+    try:
+        text = term_text(value)
+    except ValueError:     # far beyond any term: say how large instead
+        bits = value.bit_length() if isinstance(value, int) else "many"
+        return f"a number of {bits} bits"
     if len(text) <= digits:
         return text
     return f"{text[:20]}...{text[-10:]} ({len(text)} characters)"
 
 
-def _number(value: Any) -> Number:
+def _number(value: Any, what: str = "the term", max_bits: int = R.MAX_BITS) -> Number:
+    from normform.formula.digits import parse_term
+
     if isinstance(value, bool):
         raise ValueError(f"not a term: {value!r}")
     if isinstance(value, int):
-        return value
+        return value          # the check itself stops at terms beyond limits.max_bits
     if isinstance(value, Fraction):
         return value.numerator if value.denominator == 1 else value
     if isinstance(value, str):
-        f = Fraction(value.strip())
-        return f.numerator if f.denominator == 1 else f
-    raise ValueError(f"not an exact term: {value!r}")
+        return parse_term(value, what, max_bits)
+    raise ValueError(f"not an exact term: {_short(repr(value))}")
 
 
-def _listed(terms: Sequence[Any] | Mapping[int, Any], first_index: int) -> dict[int, Number]:
+def _listed(terms: Sequence[Any] | Mapping[int, Any], first_index: int,
+            max_bits: int = R.MAX_BITS) -> dict[int, Number]:
     if isinstance(terms, str):
         terms = [t for t in terms.replace(" ", "").split(",") if t]
     if isinstance(terms, Mapping):
-        return {int(k): _number(v) for k, v in sorted(terms.items())}
-    return {first_index + i: _number(v) for i, v in enumerate(terms)}
+        return {int(k): _number(v, f"the listed term a({k})", max_bits) for k, v in sorted(terms.items())}
+    return {first_index + i: _number(v, f"listed term {i + 1} (n = {first_index + i})", max_bits)
+            for i, v in enumerate(terms)}
 
 
 def _fmt(value: Any) -> str:
@@ -181,8 +190,12 @@ def _check(formula: Any, terms: Any, first_index: int, initial: Any, kind: str |
            text: str) -> Verdict:
     if isinstance(formula, str):
         formula = T.parse(formula)
+    from normform.formula.digits import TermTooLarge
+
     try:
-        listed = _listed(terms, first_index)
+        listed = _listed(terms, first_index, limits.max_bits)
+    except TermTooLarge as exc:
+        return Verdict("cannot-check", str(exc), formula=text)
     except (ValueError, ZeroDivisionError) as exc:
         return Verdict("cannot-check", f"the listed terms are not exact numbers ({exc})", formula=text)
     note = ""

@@ -29,17 +29,19 @@ def configure(parser: argparse.ArgumentParser) -> None:
 
 
 def _numbers(text: str, what: str) -> list:
-    from fractions import Fraction
+    from normform.formula.check import _short
+    from normform.formula.digits import TermTooLarge, parse_term
 
     out = []
     for part in text.replace(" ", "").split(","):
         if not part:
             continue
         try:
-            f = Fraction(part)
+            out.append(parse_term(part, f"term {len(out) + 1}"))
+        except TermTooLarge as exc:
+            raise UsageError(f"{what}: {exc}") from None
         except (ValueError, ZeroDivisionError):
-            raise UsageError(f"{what}: {part!r} is not an integer or p/q") from None
-        out.append(f.numerator if f.denominator == 1 else f)
+            raise UsageError(f"{what}: {_short(part)!r} is not an integer or p/q") from None
     if not out:
         raise UsageError(f"{what}: no values given")
     return out
@@ -47,6 +49,7 @@ def _numbers(text: str, what: str) -> list:
 
 def run(args: argparse.Namespace) -> int:
     from normform.formula.check import check_formula
+    from normform.formula.digits import term_digits_allowed
     from normform.formula.recurrence import Limits
 
     listed = _numbers(args.terms, "TERMS")
@@ -66,7 +69,8 @@ def run(args: argparse.Namespace) -> int:
         if verdict.status == "disagrees":
             worst = 1
         if args.format == "json":
-            print(json.dumps({"input": text, **verdict.to_dict()}, ensure_ascii=False))
+            with term_digits_allowed():    # listed and computed terms have at most 20,000 bits
+                print(json.dumps({"input": text, **verdict.to_dict()}, ensure_ascii=False))
         else:
             print(f"{verdict.label}: {text}")
             details = verdict.describe().split("; ", 1)

@@ -73,11 +73,19 @@ def show_value(value) -> str:
 
 
 def run(args: argparse.Namespace) -> int:
+    from normform.formula.digits import max_digits, term_digits_allowed
+    from normform.formula.evaluate import MAX_BITS
+
+    # exact results are capped in bits by the evaluator: print them whole, with
+    # the conversion limit raised to that cap for this command only (never to 0)
+    with term_digits_allowed(max_digits(MAX_BITS)):
+        return _run(args)
+
+
+def _run(args: argparse.Namespace) -> int:
     from normform.formula.api import parse_formula
     from normform.formula.errors import EvaluationError, FormulaError
 
-    if hasattr(sys, "set_int_max_str_digits"):
-        sys.set_int_max_str_digits(0)  # exact results are capped in bits by the evaluator; print them whole
     point = _point(args.at) if args.at else None
     initial = _initial(args.initial) if args.initial else None
     if args.terms is not None and args.terms < 0:

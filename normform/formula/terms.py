@@ -902,11 +902,16 @@ def _limits(limits: R.Limits | None) -> R.Limits:
 def _initial_arg(initial: Any, first_index: int) -> dict[int, Number] | None:
     if initial is None:
         return None
+    from normform.formula.digits import parse_term
+
+    def exact(v: Any, what: str) -> Number:   # long digit strings too (up to the size of a term)
+        return _norm(parse_term(v, what) if isinstance(v, str) else Fraction(v))
+
     if isinstance(initial, Mapping):
-        return {int(k): _norm(Fraction(v)) for k, v in initial.items()}
+        return {int(k): exact(v, f"the initial value a({k})") for k, v in initial.items()}
     if isinstance(initial, str):
         initial = [p for p in initial.replace(" ", "").split(",") if p]
-    return {first_index + i: _norm(Fraction(v)) for i, v in enumerate(initial)}
+    return {first_index + i: exact(v, f"initial value {i + 1}") for i, v in enumerate(initial)}
 
 
 def terms(formula: Any, first_index: int, count: int, initial: Any = None, *,

@@ -188,6 +188,13 @@ def _fix(args, entries, rules, ctx, findings, sources, io_errors):
                 sys.stdout.write(unified_diff(entry.path, entry.text, changed[entry.path]))
         print(f"normform lint: fixes would change {len(changed)} file(s)", file=sys.stderr)
         return findings, sources, io_errors
+    from normform.safety import refuse_overwrite
+
+    # FILE.orig and FILE.tmp-normform must not be (links to) another linted file: never overwrite an input
+    targets = [e.path for e in entries if e.path in changed]
+    refuse_overwrite([("the backup", p + ".orig") for p in targets if not args.no_backup]
+                     + [("the temporary file", p + ".tmp-normform") for p in targets],
+                     [("PATH", p) for p in sources])   # every file read, broken ones too
     for entry in entries:
         new_text = changed.get(entry.path)
         if new_text is None:

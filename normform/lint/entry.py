@@ -103,8 +103,53 @@ def toml_string(value: str, prefer_literal: bool = False) -> str:
     return f'"""\n{body}"""' if multi else f'"{body}"'
 
 
+_DIGIT_RUN = re.compile(r"[0-9][0-9_]*", re.ASCII)
+
+
+def _too_long_integer(path: str, text: str, kind: str) -> EntrySyntaxError | None:
+    """The error for the first integer longer than a term may be (Python would refuse to read it)."""
+    from normform.formula.digits import MAX_BITS, TERM_DIGITS
+
+    runs = [m for m in _DIGIT_RUN.finditer(text) if len(m.group()) - m.group().count("_") > TERM_DIGITS]
+    if not runs:
+        return None
+    found, what = runs[0], "an integer"
+    for m in runs[:5]:      # a long run of digits inside a string is not it: find the value
+        try:   # read the file again with that integer shortened: which value starts there?
+            short = text[:m.start()] + "0" + text[m.end():]
+            spans = (locate_json if kind == "json" else locate_toml)(short).values
+        except Exception:  # the position alone still says where
+            continue
+        where = next((p for p, span in spans.items() if span[0] == m.start()), None)
+        if where is None:
+            continue
+        found = m
+        if len(where) == 2 and where[0] == "terms" and isinstance(where[1], int):
+            what = f"term {where[1] + 1} (terms[{where[1]}])"
+        else:
+            what = "the integer at " + ".".join(str(k) for k in where)
+        break
+    digits = len(found.group()) - found.group().count("_")
+    line = text.count("\n", 0, found.start()) + 1
+    column = found.start() - (text.rfind("\n", 0, found.start()) + 1) + 1
+    return EntrySyntaxError(f"{what} has {digits:,} digits; a term may have at most {MAX_BITS:,} bits "
+                            f"(about {TERM_DIGITS:,} digits)", line=line, column=column, source=text, path=path)
+
+
 def parse_entry(path: str, text: str) -> Entry:
-    """Parse ``text`` (TOML, or JSON for ``*.json``); raises :class:`EntrySyntaxError`."""
+    """Parse ``text`` (TOML, or JSON for ``*.json``); raises :class:`EntrySyntaxError`.
+
+    Integers of up to the size of a term (20,000 bits, 6,021 digits) are read,
+    though Python's default conversion limit stops at 4,300 digits; a longer
+    one is an :class:`EntrySyntaxError` at its position.
+    """
+    from normform.formula.digits import term_digits_allowed
+
+    with term_digits_allowed():
+        return _parse_entry(path, text)
+
+
+def _parse_entry(path: str, text: str) -> Entry:
     kind = "json" if path.lower().endswith(".json") else "toml"
     if kind == "json":
         import json
@@ -114,6 +159,9 @@ def parse_entry(path: str, text: str) -> Entry:
         except json.JSONDecodeError as exc:
             raise EntrySyntaxError(f"not valid JSON: {exc.msg}", line=exc.lineno, column=exc.colno,
                                    source=text, path=path) from None
+        except ValueError:   # an integer beyond the conversion limit
+            raise (_too_long_integer(path, text, kind)
+                   or EntrySyntaxError("not valid JSON: an integer is too long", source=text, path=path)) from None
         if not isinstance(data, dict):
             raise EntrySyntaxError("an entry must be a JSON object", source=text, path=path,
                                    expected=("{",))
@@ -132,6 +180,9 @@ def parse_entry(path: str, text: str) -> Entry:
                 message = message[:m.start()]
             raise EntrySyntaxError(f"not valid TOML: {message}", line=line, column=column,
                                    source=text, path=path) from None
+        except ValueError:   # an integer beyond the conversion limit
+            raise (_too_long_integer(path, text, kind)
+                   or EntrySyntaxError("an integer is too long", source=text, path=path)) from None
         locate = locate_toml
     try:
         where = locate(text)

@@ -32,12 +32,10 @@ def _format_of(path: str, given: str | None) -> str:
     return "bibtex" if Path(path).suffix.lower() in (".bib", ".bibtex") else "jsonl"
 
 
-def house_table(explicit: str | None, start: Path | None = None):
-    """The collection's own table: ``--table`` wins, then ``[tool.normform.venues] table``."""
-    from normform.venues.table import load_table
-
+def house_table_path(explicit: str | None, start: Path | None = None) -> Path | None:
+    """Where the collection's own table is: ``--table`` wins, then ``[tool.normform.venues] table``."""
     if explicit:
-        return load_table(explicit)
+        return Path(explicit)
     try:
         from normform.config import find_config, load_config
     except ImportError:
@@ -49,7 +47,25 @@ def house_table(explicit: str | None, start: Path | None = None):
         return None
     found = find_config(base)
     root = Path(found).parent if found else base
-    return load_table(root / name)
+    return root / name
+
+
+def house_table(explicit: str | None, start: Path | None = None):
+    """The collection's own table (see :func:`house_table_path`), or None."""
+    from normform.venues.table import load_table
+
+    path = house_table_path(explicit, start)
+    return load_table(path) if path is not None else None
+
+
+def config_path(start: Path | None = None) -> str | None:
+    """The configuration file the command reads, if any (an input too: never written)."""
+    try:
+        from normform.config import find_config
+    except ImportError:
+        return None
+    found = find_config(start or Path.cwd())
+    return str(found) if found else None
 
 
 def _bib_decode(value: str) -> str:
@@ -66,6 +82,10 @@ def _bib_encode(value: str, original: str) -> str:
     from pylatexenc.latexencode import unicode_to_latex
 
     return unicode_to_latex(value, non_ascii_only=True)
+
+
+def _count(n: int, noun: str) -> str:
+    return f"{n} {noun}{'' if n == 1 else 's'}"
 
 
 class Run:
@@ -111,8 +131,9 @@ class Run:
         r = self.report()
         amb = sum(x["count"] for x in r["left_as_written"] if x["why"] == "ambiguous")
         unk = sum(x["count"] for x in r["left_as_written"] if x["why"] == "unknown")
-        lines = [f"venues --to {self.to}: {r['records']} records, {r['venue_fields']} venue fields, "
-                 f"{r['rewritten']} rewritten by {len(r['mappings'])} mappings, "
+        lines = [f"venues --to {self.to}: {_count(r['records'], 'record')}, "
+                 f"{_count(r['venue_fields'], 'venue field')}, "
+                 f"{r['rewritten']} rewritten by {_count(len(r['mappings']), 'mapping')}, "
                  f"{amb} ambiguous, {unk} unknown"]
         for m in r["mappings"]:
             lines.append(f"  {m['count']:>5}  {m['from']}  ->  {m['to']}  [{m['how']}]")
@@ -225,15 +246,15 @@ def _bibtex(text: str, run: Run, path: str) -> str:
     return replace_values(text, changes) if changes else text
 
 
-def read_input(path: str, output: str | None) -> str:
-    """The text of INPUT, refusing an ``-o`` that names the input itself (never overwrite it)."""
+def read_input(path: str, output: str | None = None) -> str:
+    """The text of INPUT.  ``output`` is refused when it is INPUT itself (never overwrite it);
+    the commands check all their files with :func:`normform.safety.refuse_overwrite` first."""
     from normform.cli import UsageError
+    from normform.safety import refuse_overwrite
 
-    src = Path(path)
-    if output and src.exists() and Path(output).resolve() == src.resolve():
-        raise UsageError("refusing to overwrite INPUT; give another -o OUT")
+    refuse_overwrite([("-o", output)], [("INPUT", path)])
     try:
-        return src.read_text("utf-8")
+        return Path(path).read_text("utf-8")
     except OSError as exc:
         raise UsageError(f"cannot read {path}: {exc.strerror}") from None
 
@@ -242,8 +263,18 @@ def run(args: argparse.Namespace) -> int:
     from normform.errors import PositionedError
     from normform.venues.style import VenueStyle
 
+    from normform.safety import refuse_overwrite
+
     src = Path(args.input)
-    text = read_input(args.input, args.output)
+    try:
+        table, config = house_table_path(args.table), config_path()
+    except PositionedError as exc:
+        print(f"normform venues: {exc}", file=sys.stderr)
+        return 2
+    refuse_overwrite([("-o", args.output), ("--report", args.report)],
+                     [("INPUT", args.input), ("--table", str(table) if table else None),
+                      ("configuration file", config)])
+    text = read_input(args.input)
     try:
         style = VenueStyle(house=house_table(args.table))
     except PositionedError as exc:

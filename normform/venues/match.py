@@ -418,7 +418,8 @@ def enrich_report(query: Reference, record: Reference, score: float = 1.0
         changes["extra"] = tuple(extra.items())
     if changes and query.provenance is not None and record.provenance is None:
         p = query.provenance
-        changes["provenance"] = Provenance(raw=p.raw, fields=p.fields, confidence=score, origin=p.origin)
+        changes["provenance"] = Provenance(raw=p.raw, fields=p.fields, confidence=round(score, 4),
+                                           origin=p.origin)
     return (query.replace(**changes) if changes else query), tuple(supplied), tuple(kept)
 
 

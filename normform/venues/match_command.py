@@ -71,8 +71,11 @@ def run(args: argparse.Namespace) -> int:
 
     if not 0.0 <= args.threshold <= 1.0:
         raise UsageError(f"--threshold must be between 0 and 1, not {args.threshold}")
+    from normform.safety import refuse_overwrite
+
     src = Path(args.input)
-    text = read_input(args.input, args.output)
+    refuse_overwrite([("-o", args.output)], [("INPUT", args.input), ("--against", args.against)])
+    text = read_input(args.input)
     skipped: list[PositionedError] = []
 
     def skip(exc: PositionedError) -> None:

@@ -2,6 +2,7 @@
 
 from __future__ import annotations
 
+from normform.formula.digits import term_text
 from normform.lint import services
 from normform.lint.fields import first_index
 from normform.lint.findings import Fix
@@ -47,8 +48,9 @@ def formula_disagrees(entry, ctx):
         expected, computed = verdict_detail(v, "expected"), verdict_detail(v, "computed")
         reason = verdict_detail(v, "reason")
         if index is not None and expected is not None and computed is not None:
-            message = (f"the formula gives a({index}) = {computed} but the terms list {expected}; "
-                       "correct the formula or the terms")
+            # values may pass Python's 4,300-digit str() limit: term_text prints them
+            message = (f"the formula gives a({index}) = {term_text(computed)} but the terms list "
+                       f"{term_text(expected)}; correct the formula or the terms")
         else:
             message = f"the formula does not fit the listed terms ({reason or 'no reason given'}); " \
                       "correct the formula or the terms"
