@@ -10,6 +10,10 @@ ones (braces in a source file) and automatic ones:
 
 Hints are kept as the title substrings they cover, in title order; this
 canonical form is what readers store in ``Reference.title_protected``.
+
+Inline math (``$Q$``, see :func:`normform.texconv.math_spans`) is never split: its letters
+count for no hint, a hint inside it is dropped (the writer's own ``{$Q$}`` group protects
+it) and one reaching into it is widened to cover it.
 """
 
 from __future__ import annotations
@@ -17,12 +21,15 @@ from __future__ import annotations
 import re
 from functools import lru_cache
 
+from normform.texconv import math_spans
+
 _WORD = re.compile(r"[^\s]+")
 _EDGE = "\"'“”‘’.,;:!?"
 _PAIRS = (("(", ")"), ("[", "]"))
 # a word whose first and last characters are none of these has no edge to strip
 _OPENERS = frozenset(_EDGE + "([")
 _CLOSERS = frozenset(_EDGE + ")]")
+_MATH_MASK = "\ue002"  # stands for each character of a math span: no blank, no letter, no edge
 _SMALL = frozenset("a an and as at but by for from in into nor of on or over per the to upon via vs with".split())
 
 
@@ -70,8 +77,36 @@ def _sentence_case(words: list[tuple[int, int, str, bool]]) -> bool:
     return capitalized * 2 <= len(rest)
 
 
+def _masked(title: str, math: list[tuple[int, int]]) -> str:
+    """``title`` with each math span's characters masked, so that a span is one word without letters."""
+    if not math:
+        return title
+    out, pos = [], 0
+    for a, b in math:
+        out += [title[pos:a], _MATH_MASK * (b - a)]
+        pos = b
+    out.append(title[pos:])
+    return "".join(out)
+
+
+def _fit(spans: list[tuple[int, int]], math: list[tuple[int, int]]) -> list[tuple[int, int]]:
+    """Intervals that leave math whole: one inside a span is dropped, one reaching into it widened."""
+    if not math:
+        return spans
+    out = []
+    for start, end in spans:
+        for a, b in math:
+            if start < b and a < end:
+                if a <= start and end <= b:
+                    break
+                start, end = min(start, a), max(end, b)
+        else:
+            out.append((start, end))
+    return _merge(out)
+
+
 def auto_intervals(title: str) -> list[tuple[int, int]]:
-    words = _cores(title)
+    words = _cores(_masked(title, math_spans(title)))
     sentence = _sentence_case(words)
     out = []
     for start, end, word, opens in words:
@@ -126,9 +161,10 @@ def _intervals(title: str, hints: tuple[str, ...]) -> tuple[tuple[int, int], ...
 
 def _compute_intervals(title: str, hints: tuple[str, ...]) -> list[tuple[int, int]]:
     auto = auto_intervals(title)
-    first = _merge(auto + [span for hint in hints for span in _occurrences(title, hint)])
+    math = math_spans(title)
+    first = _fit(_merge(auto + [span for hint in hints for span in _occurrences(title, hint)]), math)
     texts = dict.fromkeys(title[a:b] for a, b in first)
-    return _merge(auto + [span for text in texts for span in _occurrences(title, text)])
+    return _fit(_merge(auto + [span for text in texts for span in _occurrences(title, text)]), math)
 
 
 def canonical_hints(title: str | None, hints: tuple[str, ...] | list[str] = ()) -> tuple[str, ...]:

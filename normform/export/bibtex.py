@@ -8,6 +8,8 @@ as a TeX command (``{\\"o}``).  Identifiers go in the conventional fields:
 (ISO date; classic BibTeX styles ignore it), a version biblatex ``version``.
 Provenance (raw text, confidences) is kept in
 ``normform-*`` fields so that a BibTeX round trip loses nothing.
+Inline math (``$q$``, :func:`normform.texconv.math_spans`) is written as is, in a group
+that protects its case (``{$q$}``); a dollar outside math is escaped (``\\$``).
 """
 
 from __future__ import annotations
@@ -24,7 +26,7 @@ from normform.ids import isbn as _isbn, issn as _issn
 from normform.model import Date, Kind, Reference
 from normform.names import format_names
 from normform.readers.bibtex import MASTERS, VERBATIM
-from normform.texconv import protect_literal_braces, to_latex
+from normform.texconv import protect_literal_braces, to_latex, written_math
 
 ENTRY_TYPE = {
     Kind.ARTICLE: "article", Kind.BOOK: "book", Kind.CHAPTER: "incollection",
@@ -68,20 +70,38 @@ def encode_verbatim(text: str, ascii: bool = False) -> str:
 # its memory budget is reached.)
 @lru_cache(maxsize=1 << 16)
 def _tex(text: str, ascii: bool) -> str:
+    return to_latex(text, ascii, keep_math=True)
+
+
+@lru_cache(maxsize=1 << 16)
+def _escaped(text: str, ascii: bool) -> str:
     return to_latex(text, ascii)
+
+
+def _with_math(title: str, start: int, end: int, math: list[tuple[int, int]], ascii: bool, group: bool) -> str:
+    """TeX for ``title[start:end]``: its math spans (found in the whole title) as is, in a
+    group of their own when ``group``, the text between them escaped."""
+    out, pos = [], start
+    for a, b in math:
+        if start <= a and b <= end:
+            out += [_escaped(title[pos:a], ascii), "{" + title[a:b] + "}" if group else title[a:b]]
+            pos = b
+    out.append(_escaped(title[pos:end], ascii))
+    return "".join(out)
 
 
 @lru_cache(maxsize=1 << 15)
 def _title_tex(title: str, hints: tuple[str, ...], ascii: bool) -> str:
+    math = written_math(title, ascii)   # capitals.intervals never splits one
     out, pos = [], 0
     for start, end in capitals.intervals(title, hints):
-        out.append(_tex(title[pos:start], ascii))
-        inner = _tex(title[start:end], ascii)
+        out.append(_with_math(title, pos, start, math, ascii, True))
+        inner = _with_math(title, start, end, math, ascii, False)
         # A group opening with a command is a BibTeX "special character", not a
         # protection: an empty group in front keeps it a protection.
         out.append("{" + ("{}" if inner.startswith("\\") else "") + inner + "}")
         pos = end
-    out.append(_tex(title[pos:], ascii))
+    out.append(_with_math(title, pos, len(title), math, ascii, True))
     return "".join(out)
 
 

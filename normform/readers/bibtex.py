@@ -3,8 +3,10 @@
 pybtex's low-level parser reads each entry (string macros, month macros,
 ``#`` concatenation); entries are cut apart first at lines starting with
 ``@`` so one malformed entry costs only itself.  Field text goes from TeX to
-Unicode (pylatexenc); top-level braces in titles are remembered as
-capitalization hints; ``crossref`` parents lend their fields to children.
+Unicode (pylatexenc), except inline math, kept as written (``$\\pi$`` stays
+``$\\pi$``, see :func:`normform.texconv.math_spans`; ``\\$`` is a dollar); top-level
+braces in titles are remembered as capitalization hints; ``crossref`` parents
+lend their fields to children.
 """
 
 from __future__ import annotations
@@ -17,7 +19,7 @@ from normform import capitals, ids
 from normform.errors import PositionedError
 from normform.model import Date, FieldInfo, Identifier, Kind, Pages, Provenance, Reference, Span
 from normform.names import split_names
-from normform.texconv import to_unicode
+from normform.texconv import math_spans, to_unicode
 
 
 class BibtexError(PositionedError):
@@ -206,14 +208,22 @@ def _text(values: dict[str, str], name: str) -> str | None:
     value = values.pop(name, None)
     if value is None:
         return None
-    return value if name in VERBATIM else (to_unicode(value) or None)
+    return value if name in VERBATIM else (to_unicode(value, keep_math=True) or None)
 
 
 def title_hints(tex: str) -> list[str]:
-    """Unicode text of the top-level brace groups of a title, skipping accent groups ``{\\'e}``."""
+    """Unicode text of the top-level brace groups of a title, skipping accent groups ``{\\'e}``,
+    groups inside math and a group that holds just one math span (``{$Q$}``: math protection)."""
     out: list[str] = []
     depth, begin = 0, 0
+    math = {a: b for a, b in math_spans(tex)}
+    skip_to = 0
     for i, ch in enumerate(tex):
+        if i < skip_to:
+            continue
+        if depth == 0 and i in math:   # braces inside math at the top level are not hints
+            skip_to = math[i]
+            continue
         if ch == "{" and (i == 0 or tex[i - 1] != "\\"):
             if depth == 0:
                 begin = i
@@ -224,8 +234,10 @@ def title_hints(tex: str) -> list[str]:
                 inner = tex[begin + 1:i]
                 before = tex[:begin].rstrip()
                 is_argument = _ARGUMENT_BEFORE.search(before) is not None
-                if inner and not inner.startswith("\\") and not is_argument:
-                    text = to_unicode(inner)
+                bare = inner.strip()
+                if (inner and not inner.startswith("\\") and not is_argument
+                        and math_spans(bare) != [(0, len(bare))]):
+                    text = to_unicode(inner, keep_math=True)
                     if text:
                         out.append(text)
     return out
@@ -330,7 +342,7 @@ def _provenance(values: dict[str, str]) -> Provenance | None:
                 infos.append(FieldInfo(m.group(1), float(m.group(2)), span))
     return Provenance(raw=decode_verbatim(raw) if raw is not None else None, fields=tuple(infos),
                       confidence=float(conf) if conf else None,
-                      origin=to_unicode(origin) if origin else None)
+                      origin=to_unicode(origin, keep_math=True) if origin else None)
 
 
 def to_reference(entry_type: str, key: str, fields: dict[str, str]) -> Reference:
@@ -393,7 +405,7 @@ def to_reference(entry_type: str, key: str, fields: dict[str, str]) -> Reference
         report_number=report_number, accessed=accessed, version=_text(values, "version"),
         identifiers=tuple(identifiers), note=_text(values, "note"), key=key,
         title_protected=protected, provenance=provenance,
-        extra=tuple(extra) + tuple((name, value if name in VERBATIM else to_unicode(value))
+        extra=tuple(extra) + tuple((name, value if name in VERBATIM else to_unicode(value, keep_math=True))
                                    for name, value in values.items()),
     )
     return ref
