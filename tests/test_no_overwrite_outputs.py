@@ -18,6 +18,7 @@ import pytest
 from normform.cli import main
 from normform.errors import UsageError
 from normform.safety import refuse_overwrite, same_file
+from test_venues_command import QSEM_BIB  # noqa: E402
 
 RECORDS = [
     {"id": "Q000401-1", "type": "article-journal", "title": "Counting lattice paths in a strip",
@@ -26,22 +27,8 @@ RECORDS = [
      "container-title": "Transactions of the American Mathematical Society"},
 ]
 
-LIBRARY = """@article{marrowby1989,
-  author  = {Marrowby, Edwina and Tallowmere, Jonas},
-  title   = {Counting lattice paths in a strip},
-  journal = {Transactions of the American Mathematical Society},
-  volume  = {312},
-  pages   = {1--20},
-  year    = {1989},
-  doi     = {10.9999/qsem.1989.1},
-}
-@book{fenwick2001,
-  author = {Fenwick, Odile},
-  title = {Ordered trees and {C}atalan numbers},
-  publisher = {Quillfeather Press},
-  year = {2001},
-}
-"""
+LIBRARY = QSEM_BIB   # the invented curated library of the venues tests
+
 
 # the first line differs from its library record (a typo, the venue abbreviated, another year):
 # its score is not a round number, so the rounding of the written score shows
