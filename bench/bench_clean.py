@@ -109,6 +109,10 @@ def run_clean(src: Path, out: Path, jobs: int, engine_args: list[str]) -> dict:
             "worker_cpu": sum(v for k, v in cpu_seen.items() if k != proc.pid),
             "lines_per_s": summary["records"] / seconds,
             "max_process_rss_mb": max(after, before) / 1024,   # ru_maxrss is in KiB on Linux
+            # ru_maxrss of the children is the max over every child so far: when this run's
+            # processes stayed under an earlier child's peak (the input generator holds a whole
+            # million-line input), it says nothing about this run
+            "rss_hidden": after <= before,
             "sum_rss_mb": peak[0] / 2**20 if peak[0] else None,
             "largest_sampled_mb": peak[1] / 2**20 if peak[1] else None,
             "check": stdout.strip().splitlines()[0]}
@@ -255,7 +259,9 @@ def main() -> int:
                     f"{r['sum_rss_mb']:.0f} MB" if r["sum_rss_mb"] else "")
             print(f"jobs={jobs}: {r['records']:,} records in {r['seconds']:.1f}s = "
                   f"{r['lines_per_s']:,.0f} lines/s ({r['lines_per_s'] / jobs:,.0f} per job); "
-                  f"peak RSS (ru_maxrss, max over all runs so far) {r['max_process_rss_mb']:.0f} MB{sums}")
+                  + (f"ru_maxrss: hidden by an earlier child's peak ({r['max_process_rss_mb']:.0f} MB: the input "
+                     f"generator or an earlier run){sums}" if r["rss_hidden"] else
+                     f"peak RSS (ru_maxrss, max over all runs so far) {r['max_process_rss_mb']:.0f} MB{sums}"))
             print(f"         CPU {r['cpu_seconds']:.0f}s = {r['records'] / r['cpu_seconds']:,.0f} lines per CPU-second; "
                   f"clustering+report {r['finish_seconds']}s (CPU {r['finish_cpu']}s); machine load average ~{r['load']:.1f}")
             if r["main_cpu"] is not None:
