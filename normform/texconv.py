@@ -18,6 +18,7 @@ import unicodedata
 from functools import lru_cache
 
 _CARET = "\ue000"  # private-use stand-in: pylatexenc drops the argument of \^{}
+_LBRACE, _RBRACE = "\ue002", "\ue003"   # stand-ins for \textbraceleft{} and \textbraceright{}
 _NEEDS_TEX = re.compile(r"[\\{}$~%`'\-\u00a0]")
 _SPACES = re.compile(r"[ \t\r\n\u00a0]+")
 _ONLY_BRACES = re.compile(r"[\\$~%`']")  # absent: braces and dashes are all the TeX there is
@@ -111,7 +112,11 @@ def to_unicode(tex: str, keep_math: bool = False) -> str:
         text = tex.replace("---", "\u2014").replace("--", "\u2013").replace("{", "").replace("}", "")
         return _SPACES.sub(" ", text).strip()
     tex = tex.replace("\\^{}", _CARET).replace("\\textasciicircum{}", _CARET)
+    if "\\textbrace" in tex:   # pylatexenc drops these (they are how to_latex writes a lone brace)
+        tex = tex.replace("\\textbraceleft{}", _LBRACE).replace("\\textbraceright{}", _RBRACE)
     text = _reader().latex_to_text(tex).replace(_CARET, "^")
+    if _LBRACE in text or _RBRACE in text:
+        text = text.replace(_LBRACE, "{").replace(_RBRACE, "}")
     if not text.isascii():  # \v{a} gives a + combining caron; store the composed letter
         text = unicodedata.normalize("NFC", text)
     return _SPACES.sub(" ", text).strip()
@@ -132,6 +137,19 @@ def _escape(match: re.Match[str]) -> str:
     return _SPECIALS.get(s) or s[0] + "{}" + s[1]
 
 
+def _braces_balance(text: str) -> bool:
+    """Do the braces of ``text`` pair up as BibTeX counts them (never more closed than opened)?"""
+    depth = 0
+    for ch in text:
+        if ch == "{":
+            depth += 1
+        elif ch == "}":
+            depth -= 1
+            if depth < 0:
+                return False
+    return depth == 0
+
+
 def to_latex(text: str, ascii: bool = False, keep_math: bool = False) -> str:
     """TeX source for ``text``; specials escaped, non-ASCII encoded when ``ascii``.
 
@@ -150,6 +168,11 @@ def to_latex(text: str, ascii: bool = False, keep_math: bool = False) -> str:
             out.append(to_latex(text[pos:], ascii))
             return "".join(out)
     out = _SPECIAL_RE.sub(_escape, text)
+    if ("{" in text or "}" in text) and not _braces_balance(text):
+        # BibTeX counts braces even after a backslash, so a lone "\{" leaves the field
+        # open and the rest of the file unreadable: unbalanced braces are written as
+        # commands with balanced groups instead
+        out = out.replace("\\{", "\\textbraceleft{}").replace("\\}", "\\textbraceright{}")
     if ascii and not out.isascii():
         out = "".join(ch if ch.isascii() else _char_to_latex(ch) for ch in out)
     return out
