@@ -84,7 +84,8 @@ _ABBREVIATED = re.compile(r"\b[A-Z][a-z]{0,7}\.\s")
 # a closing tag (its ">" may be cut off with the run) or a whole opening tag;
 # "a<b" in a formula is neither
 _HTML_PIECE = re.compile(r"</[A-Za-z][A-Za-z0-9]{0,9}>?|<[A-Za-z][A-Za-z0-9]{0,9}(?:\s[^<>]{0,300})?>")
-_PLACE_ABBREV = frozenset("mass. calif. conn. ill. mich. ont. penn. wis. minn. fla. n.y. n.j. d.c. u.s.a. u.k.".split())
+_PLACE_ABBREV = frozenset("mass. calif. conn. ill. mich. ont. penn. wis. minn. fla. n.y. n.j. d.c. u.s.a. u.k.".split()) \
+    | rp.REGION_ABBREV
 _NEEDS_CLEAN = re.compile(r"[\\{}~$*_\t\n]|\s\s|,,|\.\.")
 
 
@@ -122,6 +123,8 @@ def _strip_field(field: str, text: str) -> str:
     if keep_dot and out and field == "place":
         # a place keeps only a region's abbreviation dot ("Mass."), not the sentence's ("New York.")
         keep_dot = out.rsplit(" ", 1)[-1].lower() + "." in _PLACE_ABBREV
+        if keep_dot:
+            return out + "."    # "Pasadena, Calif.": the region's dot
     if keep_dot and out:
         words = out.split()
         last = words[-1] if words else ""
@@ -1393,6 +1396,8 @@ def _repairs(text: str, tokens: list[Token], labels: list[str], marg: list[float
         rp.repair_abbreviated_publisher(tokens, labels)
     if "series" not in labels and "publisher" in labels and "O" in labels and rp.SERIES_ACRONYM_GATE.search(text):
         rp.repair_series_acronym(tokens, labels)
+    if "date" in labels and "," in words and rp.COMPANY_GATE.search(text):
+        rp.repair_company_imprint(tokens, labels)
     if "publisher" in labels:
         if not words.isdisjoint(rp.DEPARTMENT_GATE):
             rp.repair_department_publisher(tokens, labels)
@@ -1405,6 +1410,10 @@ def _repairs(text: str, tokens: list[Token], labels: list[str], marg: list[float
             if "container_title" in labels:
                 rp.repair_event_after_proceedings(tokens, labels)
             rp.repair_place_before_year(tokens, labels)
+    if ("publisher" in labels or "container_title" in labels) and "," in words:
+        rp.repair_region_in_publisher(tokens, labels)
+    if "place" in labels and "," in words:
+        rp.repair_region_after_place(tokens, labels)
     return repair
 
 
@@ -1512,6 +1521,7 @@ def assemble(text: str, tokens: list[Token], labels: list[str], marg: list[float
                 field != "place" or value.rsplit(" ", 1)[-1].lower() + "." in _PLACE_ABBREV):
             last = value.rsplit(" ", 1)[-1]
             if len(last) <= 4 and last[:1].isupper() or (last.lower() + ".") in lx.JOURNAL_WORDS \
+                    or field == "place" \
                     or (_ABBREVIATED.search(value) and last.isalpha() and last[:1].isupper()):
                 # the abbreviation's period was labeled as punctuation; in a
                 # name abbreviated elsewhere ("Bull. Quill Soc. Math. Ink.")

@@ -24,7 +24,10 @@ nd oh ok or pa ri sc sd tn tx ut vt va wa wv wi wy mass. calif. conn. ill. mich.
 usa u.s.a. us uk u.k. england germany switzerland france italy netherlands japan china india russia
 spain austria belgium canada australia poland sweden denmark norway hungary romania singapore
 """.split())
-_COMPANY = frozenset(("Inc", "Ltd", "Co", "GmbH", "Corp", "LLC", "KG"))
+_COMPANY = frozenset(("Inc", "Ltd", "Co", "GmbH", "Corp", "LLC", "KG", "AG", "PLC", "plc", "Pty"))
+# company suffixes typed with dots between letters ("S.A.", "B.V."), matched on
+# the joined token texts; common practice in imprints
+_DOTTED_COMPANY = frozenset(("s.a.", "b.v.", "n.v.", "a.g.", "s.p.a.", "s.l.", "s.r.l.", "a.s.", "k.k."))
 # token texts of which one must be present for the imprint repairs to act
 PLACE_GATE = frozenset(w2 for w in lx.PLACES | _REGIONS for w2 in (w.capitalize(), w.upper(), w.rstrip(".").capitalize(),
                                                                    w.rstrip(".").upper()))
@@ -62,6 +65,34 @@ def label_after(tokens: list[Token], labels: list[str], last: int) -> int:
     while nxt < n and labels[nxt] == "O" and tokens[nxt].kind == "punct" and nxt - last < 3:
         nxt += 1
     return nxt
+
+
+def company_start(tokens: list[Token], c: int, lo: int = 0) -> int:
+    """Where a company suffix (``Inc.``, ``GmbH``, ``S.A.``, ``B.V.``)
+    that ends tokens lo..c-1 starts, typed as one word after a space or
+    comma; -1 if they end with none."""
+    if c - 1 < lo:
+        return -1
+    t = tokens[c - 1]
+    if t.text in _COMPANY:
+        return c - 1
+    if t.text == "." and c - 2 >= lo and tokens[c - 2].text in _COMPANY and tokens[c - 2].end == t.start:
+        return c - 2
+    if not t.text.endswith("."):
+        return -1
+    joined = ""
+    for j in range(c - 1, max(lo, c - 7) - 1, -1):
+        joined = tokens[j].text + joined
+        if j < c - 1 and tokens[j].end != tokens[j + 1].start:
+            return -1
+        if joined.lower() in _DOTTED_COMPANY:
+            return j if j == 0 or tokens[j].start > tokens[j - 1].end else -1
+    return -1
+
+
+def company_before(tokens: list[Token], c: int, lo: int = 0) -> bool:
+    """Tokens lo..c-1 end with a company suffix (see :func:`company_start`)."""
+    return company_start(tokens, c, lo) >= 0
 
 
 def _place_word(t: Token) -> bool:
@@ -136,8 +167,7 @@ def repair_publisher_place(tokens: list[Token], labels: list[str]) -> None:
                 break
         for c in commas:
             # "Prentice Hall, Inc., Upper Saddle River": after the company suffix
-            if c > i + 1 and (tokens[c - 1].text in _COMPANY or tokens[c - 1].text == "."
-                              and tokens[c - 2].text in _COMPANY) and c + 1 <= e \
+            if c > i + 1 and company_before(tokens, c, i + 1) and c + 1 <= e \
                     and tokens[c + 1].kind == "word" and tokens[c + 1].text[:1].isupper() \
                     and tokens[c + 1].text not in _COMPANY and (cut < 0 or c < cut):
                 tail = [t for t in tokens[c + 1:e + 1] if t.kind == "word"]
@@ -1192,6 +1222,19 @@ def repair_abbreviation_into_title(tokens: list[Token], labels: list[str]) -> No
     labels[c - 2] = labels[c - 1] = "container_title"
 
 
+def _full_name_at(tokens: list[Token], k: int) -> bool:
+    """Tokens from k are a name typed initials first (``E. Vellum``,
+    ``E. F. van Vellum``): one or more initials, then a capitalised word."""
+    n = len(tokens)
+    j = k
+    while j < n and tokens[j].kind == "initial":
+        j += 1
+    while j < n and tokens[j].kind == "word" and tokens[j].text in lx.PARTICLES:
+        j += 1
+    return j > k and j < n and tokens[j].kind == "word" and tokens[j].text[:1].isupper() \
+        and tokens[j].text not in _ED_WORDS
+
+
 def repair_book_in_editors(tokens: list[Token], labels: list[str]) -> None:
     """``in Handbook of Quills, C. D. Inkwell, ed., CRC Press``: an editor
     run right after "in" whose first comma piece is no name (a lower-case
@@ -1211,8 +1254,14 @@ def repair_book_in_editors(tokens: list[Token], labels: list[str]) -> None:
     else:
         rest = range(stop + 1, end + 1)
     seg = tokens[e0:stop]
-    if any(t.kind == "initial" for t in seg) or not any(
-            t.kind == "word" and t.text[:1].islower() and t.text not in _NAME_LOWER_OK for t in seg):
+    if any(t.kind == "initial" for t in seg):
+        return
+    if not any(t.kind == "word" and t.text[:1].islower() and t.text not in _NAME_LOWER_OK for t in seg) \
+            and not (seg and seg[0].text.lower() not in lx.GIVEN_NAMES and _full_name_at(tokens, stop + 1)):
+        # "in: Nib Studies, E. Vellum (ed.)": no lower-case word, but the next
+        # piece is a whole name with its initials first -- in such a list a
+        # piece without initials is no name ("Vellum, E." would have only
+        # initials after the comma)
         return
     if not any(tokens[x].kind == "initial" and labels[x] == "editors" for x in rest):
         return      # the rest must still be names
@@ -1637,15 +1686,235 @@ def repair_place_before_year(tokens: list[Token], labels: list[str]) -> None:
         c -= 1
     if c <= i + 0 or c == e:
         return
-    head = [t.text.lower() for t in tokens[i:c]]
-    if not any(w in _PUBLISHER_HEAD for w in head) and " ".join(head) not in _KNOWN_PUBLISHERS:
+    # "Quill Press, Inc., Dovecote": a company suffix ends the publisher's name,
+    # the comma before it is inside the name; "Harcourt, Brace, Ink Harbour":
+    # other comma pieces cannot be told apart
+    if not _publisher_head(tokens, i, c):
         return
-    if any(tokens[k].text == "," for k in range(i, c)):
-        return   # "Harcourt, Brace, Ink Harbour": the comma pieces cannot be told apart
     if _place_like(tokens, c + 1, e) and _date_next(tokens, labels, e):
         labels[c] = "O"
         for k in range(c + 1, e + 1):
             labels[k] = "place"
+
+
+# Regions typed as dotted abbreviations after a place ("Providence, R.I.",
+# "Boston, Mass."), matched on the joined token texts, lower case.  Common
+# practice: the traditional US state abbreviations, a few Canadian and
+# Australian ones, and the country abbreviations of imprints.
+REGION_ABBREV = frozenset("""
+ala. ariz. ark. cal. calif. colo. conn. del. d.c. fla. ga. ill. ind. kan. kans. ky. la. md. mass. mich.
+minn. miss. mo. mont. neb. nebr. nev. n.h. n.j. n.m. n.y. n.c. n.d. okla. ore. oreg. pa. penn. penna. r.i.
+s.c. s.d. tenn. tex. vt. va. wash. w.va. wis. wisc. wyo. ont. que. b.c. alta. sask. man. n.s. n.s.w. qld.
+vic. u.s.a. u.s. u.k.
+""".split())
+_NOT_REGION_LABELS = frozenset(("date", "pages", "volume", "issue", "title", "container_title"))
+
+
+def _region_chunk(tokens: list[Token], a: int) -> int:
+    """Last index of a region abbreviation starting at token a (``R.I.``,
+    ``Mass.``, ``NY``, ``USA``), typed as one word; -1 if none."""
+    n = len(tokens)
+    t = tokens[a]
+    if t.kind == "word" and t.text.isupper() and t.text.lower() in _REGIONS:
+        return a if a + 1 >= n or tokens[a + 1].text != "." or tokens[a + 1].start > t.end else a + 1
+    joined = ""
+    best = -1
+    for j in range(a, min(n, a + 6)):
+        if j > a and tokens[j].start != tokens[j - 1].end:
+            break
+        if tokens[j].kind not in ("word", "initial", "punct") or tokens[j].kind == "punct" and tokens[j].text != ".":
+            break
+        joined += tokens[j].text
+        if joined.lower() in REGION_ABBREV:
+            best = j
+    if best >= 0 and best + 1 < n and tokens[best + 1].start == tokens[best].end \
+            and tokens[best + 1].kind in ("word", "initial"):
+        return -1   # part of a longer word
+    return best
+
+
+_REGION_FROM = frozenset(("O", "place", "authors", "editors", "note", "publisher"))
+
+
+def _publisher_head(tokens: list[Token], i: int, c: int) -> bool:
+    """Tokens i..c-1 (before the comma at c) name a publisher beyond doubt:
+    a publisher word, a known publisher, or a company suffix; commas inside
+    only before a company suffix (``Quill Press, Inc.``)."""
+    if c <= i:
+        return False
+    head = [t.text.lower() for t in tokens[i:c]]
+    company = company_before(tokens, c, i + 1)
+    if not company and not any(w in _PUBLISHER_HEAD for w in head) and " ".join(head) not in _KNOWN_PUBLISHERS:
+        return False
+    inner = [k for k in range(i, c) if tokens[k].text == ","]
+    return not inner or company and all(company_before(tokens, k2, k + 1) for k, k2 in zip(inner, inner[1:] + [c]))
+
+
+def _regions_piece(tokens: list[Token], a: int, b: int) -> bool:
+    """Tokens a..b are one region abbreviation."""
+    return _region_chunk(tokens, a) == b
+
+
+def repair_region_in_publisher(tokens: list[Token], labels: list[str]) -> None:
+    """``Quill Press, Dovecote, N.Y., 1995``, ``Quill Press, Ink Harbour,
+    NJ, 1995``: a place with its region read into the publisher (or only
+    the region split off as the place).  When the publisher run ends with
+    comma pieces that are region abbreviations, right after a place-like
+    piece, and what is left names a publisher beyond doubt, the place
+    piece and its regions are the place."""
+    n = len(labels)
+    run = "publisher"
+    if "publisher" not in labels:
+        # "Quill Press, Dovecote, Ill., 1995" read as a journal: no journal's numbers, not after "in"
+        if any(lab in labels for lab in ("volume", "issue", "pages", "editors")):
+            return
+        run = "container_title"
+    e = n - 1
+    while e >= 0 and labels[e] != run:
+        e -= 1
+    if e < 0:
+        return
+    i = e
+    while i > 0 and labels[i - 1] == run:
+        i -= 1
+    if run != "publisher" and (tokens[i - 1].text in _IN or i > 1 and tokens[i - 2].text in _IN):
+        return
+    if any(t.text == ";" for t in tokens[i:e + 1]):
+        return      # a joint imprint keeps its places
+    # regions after the run, split off or left out ("Ink Harbour, NJ", "Dovecote, N.J.")
+    end = e
+    c = e
+    while c > i and tokens[c].text != ",":
+        c -= 1
+    if c > i and _region_chunk(tokens, c + 1) == e + 1 and labels[e + 1] == "O":
+        end = e + 1     # "Ill." with its period outside the run
+    while end + 2 < n and tokens[end + 1].text == ",":
+        b = _region_chunk(tokens, end + 2)
+        if b < 0 or any(labels[x] not in _REGION_FROM for x in range(end + 1, b + 1)):
+            break
+        end = b
+    pieces = _pieces(tokens, i, end)
+    r = len(pieces)
+    while r > 0 and _regions_piece(tokens, *pieces[r - 1]):
+        r -= 1
+    if r == len(pieces) or r < 2:
+        return
+    a, b = pieces[r - 1]
+    if not (_place_like(tokens, a, b) or _all_places(tokens, a, b)) or not _publisher_head(tokens, i, a - 1):
+        return
+    nxt = end + 1
+    while nxt < n and labels[nxt] == "O" and tokens[nxt].text in ".,;":
+        nxt += 1
+    if not (nxt >= n or labels[nxt] == "date" or tokens[nxt].text == "("):
+        return
+    labels[a - 1] = "O"
+    for k in range(i, a - 1):
+        labels[k] = "publisher"
+    for k in range(a, end + 1):
+        labels[k] = "place"
+
+
+def repair_region_after_place(tokens: list[Token], labels: list[str]) -> None:
+    """A region abbreviation after the place, ``Providence, R.I., 1995``,
+    ``Boston, Mass.: Quill Press``, ``Ink Harbour, NJ``: the labeler reads
+    the dotted letters as a name or leaves them out.  The comma and the
+    region belong to the place run (``Providence, RI`` already does); a
+    region is taken only when the year, a colon, another region or the
+    line's end follows it."""
+    n = len(tokens)
+    try:
+        p1 = len(labels) - 1 - labels[::-1].index("place")
+    except ValueError:
+        return
+    while p1 + 2 < n and tokens[p1 + 1].text == ",":
+        a = p1 + 2
+        b = _region_chunk(tokens, a)
+        if b < 0 or any(labels[k] in _NOT_REGION_LABELS for k in range(a, b + 1)):
+            return
+        nxt = b + 1
+        while nxt < n and labels[nxt] == "O" and tokens[nxt].text in ".;" :
+            nxt += 1
+        ok = nxt >= n or labels[nxt] == "date" or tokens[nxt].text in (":", "(") \
+            or tokens[nxt].text == "," and (nxt + 1 >= n or labels[nxt + 1] == "date" or tokens[nxt + 1].kind == "num"
+                                            or _region_chunk(tokens, nxt + 1) >= 0)
+        if not ok:
+            return
+        for k in range(p1 + 1, b + 1):
+            labels[k] = "place"
+        p1 = b
+
+
+# a company suffix in a line; gates :func:`repair_company_imprint`
+COMPANY_GATE = re.compile(r"\b(?:Inc|Ltd|Co|GmbH|Corp|LLC|KG|AG|PLC|plc|Pty)\b|(?<![\w.])(?:S\.A|B\.V|N\.V|A\.G|S\.p\.A"
+                          r"|S\.L|S\.r\.l|A\.S|K\.K)\.")
+_COMPANY_NAME_GLUE = frozenset(("&", "and", "of", "the", "und", "et", "y", "-", "'"))
+_COMPANY_FROM = frozenset(("O", "publisher", "place", "container_title", "title", "series", "note", "authors",
+                           "editors"))
+
+
+def repair_company_imprint(tokens: list[Token], labels: list[str]) -> None:
+    """A company suffix (``Inc.``, ``Ltd.``, ``GmbH``, ``S.A.``, ``B.V.``)
+    ends a publisher's name: ``Quill Press, Inc., Dovecote, 1990``,
+    ``Quill Uitgevers B.V., Ink Harbour, 1990``.  The comma piece that ends
+    with the suffix (with the piece before it when the suffix stands alone
+    after a comma) is the publisher, and a place-like piece between it and
+    the year is the place -- known place name or not.  The labeler reads
+    such lines in pieces (the suffix's initials as a name, the name as a
+    journal); only a piece after the record's title and before its year is
+    taken, and only when no other publisher run is labeled."""
+    n = len(tokens)
+    for c in range(2, n):
+        if tokens[c].text != ",":
+            continue
+        s0 = company_start(tokens, c, 1)
+        if s0 < 0:
+            continue
+        a = s0
+        while a >= 2 and tokens[a - 1].text == ",":
+            s1 = company_start(tokens, a - 1, 1)
+            if s1 < 0:
+                break
+            a = s1      # suffixes in a row: "Quill Publishing Co., Inc."
+        if tokens[a - 1].text == "," and a >= 2:
+            a -= 1      # "Quill Press, Inc.": the comma is inside the name
+        s1 = a
+        while a - 1 >= 0 and (tokens[a - 1].kind in ("word", "initial") and tokens[a - 1].text[:1].isupper()
+                              or tokens[a - 1].text in _COMPANY_NAME_GLUE):
+            a -= 1
+        if a < 1 or tokens[a - 1].text not in ",.;:" or a == s0:
+            continue
+        if not any(tokens[k].kind == "word" and tokens[k].text[:1].isupper() for k in range(a, s0)):
+            continue
+        if not any(lab in ("title", "container_title") for lab in labels[:a - 1]):
+            continue    # the record's title comes first
+        if any(labels[k] not in _COMPANY_FROM for k in range(a, c)) \
+                or any(labels[k] in ("authors", "editors") for k in range(a, s1)):
+            continue    # a name's initials ("Vellum, S. A.") are no company
+        # what follows: a place piece (with its regions) and the year, or the year itself
+        b = c
+        while b + 1 < n and tokens[b + 1].text not in ",;:()" and tokens[b + 1].kind != "num":
+            b += 1
+        r = b
+        while b > c and r + 2 < n and tokens[r + 1].text == "," and _region_chunk(tokens, r + 2) >= 0 \
+                and all(labels[x] in _REGION_FROM for x in range(r + 2, _region_chunk(tokens, r + 2) + 1)):
+            r = _region_chunk(tokens, r + 2)
+        if b > c and _place_like(tokens, c + 1, b) and _date_next(tokens, labels, r):
+            place = range(c + 1, r + 1)
+            b = r
+        elif _date_next(tokens, labels, c - 1):
+            place = range(0)
+            b = c - 1
+        else:
+            continue
+        if any(lab == "publisher" for k, lab in enumerate(labels) if not a <= k <= b) \
+                or any(t.text == ";" for t in tokens[a:b + 1]):
+            return      # another publisher, or a joint imprint (repair_joint_imprint)
+        for k in range(a, c):
+            labels[k] = "publisher"
+        labels[c] = "O"
+        for k in place:
+            labels[k] = "place"
+        return
 
 
 _MEETING_WORDS = frozenset("conference proceedings symposium workshop congress colloquium meeting proc conf symp "
