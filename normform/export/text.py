@@ -28,10 +28,20 @@ from normform.ids import arxiv, isbn, mr, zbl
 from normform.model import Date, Kind, Name, Reference
 
 
-def initials(given: str) -> str:
-    """``Ada Lovelace`` -> ``A. L.``; ``Jean-Pierre`` -> ``J.-P.``; initials are kept."""
+def initials(given: str, caps_are_initials: bool = False) -> str:
+    """``Ada Lovelace`` -> ``A. L.``; ``Jean-Pierre`` -> ``J.-P.``; initials are kept,
+    run-together ones spaced (``A.B.`` -> ``A. B.``).  With ``caps_are_initials`` a word
+    of two or three capitals is a run of initials (``AB`` -> ``A. B.``, the
+    ``Family AB`` shape of author-initials styles) rather than a name typed in capitals."""
     out = []
     for word in given.split():
+        if caps_are_initials and 2 <= len(word) <= 3 and word.isalpha() and word.isupper():
+            out.append(" ".join(ch + "." for ch in word))
+            continue
+        if "-" not in word and "." in word.rstrip("."):
+            # "A.B." / "A.B": one initial per dotted piece
+            out.append(" ".join(p[0] + "." for p in word.split(".") if p and p[0].isalpha()))
+            continue
         parts = word.split("-")
         out.append("-".join(p[0] + "." if p and p[0].isalpha() else p for p in parts))
     return " ".join(out)
@@ -41,7 +51,9 @@ def initials(given: str) -> str:
 def short_name(name: Name) -> str:
     if name.literal is not None:
         return name.literal
-    head = " ".join(p for p in (initials(name.given) if name.given else None, name.dropping_particle,
+    # "Quill AB": capitals after a family name not itself in capitals are initials ("QUILL, ADA" is a name)
+    caps = bool(name.family) and not name.family.isupper()
+    head = " ".join(p for p in (initials(name.given, caps) if name.given else None, name.dropping_particle,
                                 name.particle, name.family) if p)
     return f"{head}, {name.suffix}" if name.suffix else head
 

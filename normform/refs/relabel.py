@@ -474,8 +474,9 @@ def _journal_volume_year(text, tokens, starts, labels, marg) -> None:
 
 
 def _vancouver_initials(tokens, labels) -> None:
-    """``Featherstone AB, Penrake EF. Title``: the capital initials of the
-    last name, printed without periods, belong to the author list."""
+    """``Featherstone AB, Penrake EF. Title`` (or ``... EF (2005) Title``):
+    the capital initials of the last name, printed without periods, belong
+    to the author list."""
     n = len(tokens)
     if n < 4 or labels[0] != "authors":
         return
@@ -483,11 +484,15 @@ def _vancouver_initials(tokens, labels) -> None:
     while end + 1 < n and labels[end + 1] == "authors":
         end += 1
     x = end + 1
-    if x + 1 < n and labels[x] == "O" and len(tokens[x].text) <= 3 and _caps(tokens[x].text) and tokens[x].kind == "word" \
-            and tokens[x + 1].text in ".," and tokens[end].kind == "word" and tokens[x].start == tokens[end].end + 1 \
+    # what may follow the initials: the list's end (". Title", ", Title") or the
+    # year of an author-year style ("Featherstone AB, Penrake EF (2005) Title")
+    ends = x + 1 < n and (tokens[x + 1].text in ".," or tokens[x + 1].text == "(" and x + 2 < n
+                          and tokens[x + 2].kind == "num" and labels[x + 2] == "date")
+    if ends and labels[x] == "O" and len(tokens[x].text) <= 3 and _caps(tokens[x].text) and tokens[x].kind == "word" \
+            and tokens[end].kind == "word" and tokens[x].start == tokens[end].end + 1 \
             and (any(_caps(tokens[y].text) and tokens[y].kind == "word" for y in range(1, end))
-                 # one name alone: "Featherstone AB. Quill sums."
-                 or end == 0 and tokens[x + 1].text == "." and len(tokens[x].text) >= 2):
+                 # one name alone: "Featherstone AB. Quill sums.", "Featherstone AB (2005) Quill sums."
+                 or end == 0 and tokens[x + 1].text in ".(" and len(tokens[x].text) >= 2):
         labels[x] = "authors"
 
 
