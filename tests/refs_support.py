@@ -27,3 +27,8 @@ def assemble_labelled(text: str, spec: list[tuple[str, str]], conf: float = 0.99
     """The Reference assembled from hand-set labels, every marginal ``conf``."""
     toks, labels = labelled(text, spec)
     return assemble(text, toks, labels, [conf] * len(toks), conf)
+
+
+def families(names) -> list[str]:
+    """The family names of a name list, in order (what the tests compare)."""
+    return [n.family for n in names]

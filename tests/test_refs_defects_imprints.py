@@ -23,11 +23,7 @@ from normform.model import Kind
 from normform.refs import relabel
 from normform.refs import repairs as rp
 from normform.refs.tokens import tokenize
-from tests.refs_support import assemble_labelled, labelled
-
-
-def families(names) -> list[str]:
-    return [n.family for n in names]
+from tests.refs_support import assemble_labelled, families, labelled
 
 
 # --- 1. translators named before their role word ------------------------------------------

@@ -25,11 +25,7 @@ from normform import parse_reference
 from normform.model import Kind
 from normform.refs import repairs as rp
 from normform.refs.tokens import tokenize
-from tests.refs_support import labelled
-
-
-def families(names) -> list[str]:
-    return [n.family for n in names]
+from tests.refs_support import families, labelled
 
 
 def labels_of(toks, labels, words):
