@@ -1305,6 +1305,13 @@ def _repairs(text: str, tokens: list[Token], labels: list[str], marg: list[float
         rp.repair_part_in_book(tokens, labels)
     if "editors" in labels and "container_title" not in labels and ("in" in words or "In" in words):
         rp.repair_book_in_editors(tokens, labels)
+    if "title" in labels and ":" in words and ("in" in words or "In" in words):
+        rp.repair_in_inside_title(tokens, labels)
+    if "editors" in labels and "container_title" not in labels and "(" in words:
+        rp.repair_title_in_bracketed_editors(tokens, labels)
+    if "container_title" in labels and ("editors" in labels or "edited" in words) \
+            and ("in" in words or "In" in words or "in:" in words or "In:" in words):
+        rp.repair_split_book_title(tokens, labels)
     if "container_title" in labels:
         _repair_lone_container(tokens, labels)
     if "publisher" not in labels and "container_title" not in labels and "title" in labels and "," in words:

@@ -1945,3 +1945,81 @@ def repair_event_after_proceedings(tokens: list[Token], labels: list[str]) -> No
         y -= 1
     for k in range(e + 1, y + 1):
         labels[k] = "container_title"
+
+
+def repair_split_book_title(tokens: list[Token], labels: list[str]) -> None:
+    """``in: Partitions, Quills and Inks (O. Vellum, ed.)``: a book title
+    with a comma, cut by the labeler at the comma.  When the first container
+    run opens right after "in" / "in:" and a second one follows after only
+    that comma and runs up to the editors' bracket (or to ", edited by" /
+    ", ed."), the two are one title and the comma is part of it."""
+    n = len(labels)
+    s = labels.index("container_title")
+    if not (s >= 1 and tokens[s - 1].text in _IN or s >= 2 and tokens[s - 1].text == ":" and tokens[s - 2].text in _IN):
+        return
+    e = run_end(labels, s)
+    c = e + 1
+    if c + 1 >= n or tokens[c].text != "," or labels[c] != "O" or labels[c + 1] != "container_title":
+        return
+    e2 = run_end(labels, c + 1)
+    k = e2 + 1
+    if k >= n:
+        return
+    bracket = tokens[k].text == "(" and any(labels[j] == "editors" for j in range(k + 1, min(n, k + 4)))
+    role = tokens[k].text == "," and k + 1 < n and tokens[k + 1].text.lower().rstrip(".") in ("ed", "eds", "edited")
+    if bracket or role:
+        labels[c] = "container_title"
+
+
+def repair_title_in_bracketed_editors(tokens: list[Token], labels: list[str]) -> None:
+    """``in: Quill Studies (O. Vellum, ed.)``: the labeler ran the editors'
+    run back over the bracket into the book's title.  A name list never
+    holds an opening bracket: when an editors run does, and the words before
+    the bracket hold no initial, they are the book's title."""
+    n = len(labels)
+    s = labels.index("editors")
+    e = run_end(labels, s)
+    try:
+        b = next(k for k in range(s + 1, e + 1) if tokens[k].text == "(")
+    except StopIteration:
+        return
+    head = range(s, b)
+    # capitalised words, with commas and "and" between them ("Partitions, Quills and Inks"), no initial
+    if not head or not all(tokens[k].kind == "word" and (tokens[k].text[:1].isupper() or tokens[k].text == "and")
+                           or tokens[k].text in (",", "&") for k in head) \
+            or tokens[s].kind != "word" or tokens[b - 1].kind != "word" or tokens[s].text.lower() in lx.GIVEN_NAMES:
+        return   # ("Edith (E.) Vellum": a given name, not a title)
+    if not any(tokens[k].kind == "initial" for k in range(b + 1, e + 1)):
+        return
+    for k in head:
+        labels[k] = "container_title"
+    labels[b] = "O"
+
+
+def repair_in_inside_title(tokens: list[Token], labels: list[str]) -> None:
+    """``Nib words, in: Partitions, Quills and Inks (O. Vellum, ed.)``: the
+    first comma piece of the book's title read as (more of) the chapter's
+    title.  When ", in:" follows the title and the piece after the colon is
+    labelled title, while a book's title or its editors follow that piece,
+    the piece opens the book's title (and the comma after it is inside it)."""
+    n = len(labels)
+    s = labels.index("title")
+    for k in range(s + 1, n - 2):
+        if tokens[k].text in ("in", "In") and tokens[k - 1].text in ",." and tokens[k + 1].text == ":" \
+                and labels[k] in ("title", "O") and labels[k + 2] == "title":
+            break
+    else:
+        return
+    a = k + 2
+    e = run_end(labels, a)
+    x = e + 1
+    while x < n and labels[x] == "O" and tokens[x].text in ",(":
+        x += 1
+    if x >= n or labels[x] not in ("container_title", "editors"):
+        return
+    for j in range(k - 1, k + 2):
+        labels[j] = "O"
+    for j in range(a, e + 1):
+        labels[j] = "container_title"
+    if labels[x] == "container_title" and x == e + 2 and tokens[e + 1].text == ",":
+        labels[e + 1] = "container_title"   # the comma inside the book's title
