@@ -32,3 +32,11 @@ def assemble_labelled(text: str, spec: list[tuple[str, str]], conf: float = 0.99
 def families(names) -> list[str]:
     """The family names of a name list, in order (what the tests compare)."""
     return [n.family for n in names]
+
+
+def leaves_alone(repair, text: str, spec: list[tuple[str, str]]) -> bool:
+    """Does ``repair(tokens, labels)`` leave the hand-set labels of ``text`` as they were?"""
+    toks, labels = labelled(text, spec)
+    before = list(labels)
+    repair(toks, labels)
+    return labels == before
