@@ -18,7 +18,7 @@ import unicodedata
 from functools import lru_cache
 
 _CARET = "\ue000"  # private-use stand-in: pylatexenc drops the argument of \^{}
-_LBRACE, _RBRACE = "\ue002", "\ue003"   # stand-ins for \textbraceleft{} and \textbraceright{}
+_LBRACE, _RBRACE = "\ue003", "\ue004"   # stand-ins for \textbraceleft{} and \textbraceright{}
 _NEEDS_TEX = re.compile(r"[\\{}$~%`'\-\u00a0]")
 _SPACES = re.compile(r"[ \t\r\n\u00a0]+")
 _ONLY_BRACES = re.compile(r"[\\$~%`']")  # absent: braces and dashes are all the TeX there is
@@ -112,10 +112,11 @@ def to_unicode(tex: str, keep_math: bool = False) -> str:
         text = tex.replace("---", "\u2014").replace("--", "\u2013").replace("{", "").replace("}", "")
         return _SPACES.sub(" ", text).strip()
     tex = tex.replace("\\^{}", _CARET).replace("\\textasciicircum{}", _CARET)
-    if "\\textbrace" in tex:   # pylatexenc drops these (they are how to_latex writes a lone brace)
+    lone = "\\textbrace" in tex   # pylatexenc drops these (how to_latex writes a lone brace)
+    if lone:
         tex = tex.replace("\\textbraceleft{}", _LBRACE).replace("\\textbraceright{}", _RBRACE)
     text = _reader().latex_to_text(tex).replace(_CARET, "^")
-    if _LBRACE in text or _RBRACE in text:
+    if lone:
         text = text.replace(_LBRACE, "{").replace(_RBRACE, "}")
     if not text.isascii():  # \v{a} gives a + combining caron; store the composed letter
         text = unicodedata.normalize("NFC", text)
@@ -130,11 +131,22 @@ _SPECIALS = {
 _SPECIAL_RE = re.compile(r"[\\{}&%$#_~^]|([-'`,<>])(?=\1)|[!?]`")
 
 
-def _escape(match: re.Match[str]) -> str:
-    s = match.group(0)
-    if match.group(1):
-        return s + "{}"
-    return _SPECIALS.get(s) or s[0] + "{}" + s[1]
+# BibTeX counts braces even after a backslash, so a lone "\{" leaves the field open and
+# the rest of the file unreadable: when a text's braces do not pair up, they are written
+# as commands with balanced groups instead
+_LONE_BRACES = {**_SPECIALS, "{": "\\textbraceleft{}", "}": "\\textbraceright{}"}
+
+
+def _escaper(specials: dict[str, str]):
+    def escape(match: re.Match[str]) -> str:
+        s = match.group(0)
+        if match.group(1):
+            return s + "{}"
+        return specials.get(s) or s[0] + "{}" + s[1]
+    return escape
+
+
+_escape, _escape_lone_braces = _escaper(_SPECIALS), _escaper(_LONE_BRACES)
 
 
 def _braces_balance(text: str) -> bool:
@@ -167,12 +179,8 @@ def to_latex(text: str, ascii: bool = False, keep_math: bool = False) -> str:
                 pos = b
             out.append(to_latex(text[pos:], ascii))
             return "".join(out)
-    out = _SPECIAL_RE.sub(_escape, text)
-    if ("{" in text or "}" in text) and not _braces_balance(text):
-        # BibTeX counts braces even after a backslash, so a lone "\{" leaves the field
-        # open and the rest of the file unreadable: unbalanced braces are written as
-        # commands with balanced groups instead
-        out = out.replace("\\{", "\\textbraceleft{}").replace("\\}", "\\textbraceright{}")
+    lone = ("{" in text or "}" in text) and not _braces_balance(text)
+    out = _SPECIAL_RE.sub(_escape_lone_braces if lone else _escape, text)
     if ascii and not out.isascii():
         out = "".join(ch if ch.isascii() else _char_to_latex(ch) for ch in out)
     return out
