@@ -19,7 +19,6 @@ resumed run can skip exactly the items already done.
 from __future__ import annotations
 
 import json
-import os
 from dataclasses import dataclass, field, replace
 from pathlib import Path
 from typing import Iterator
@@ -303,8 +302,3 @@ def count_lines(paths: list[Path]) -> int | None:
     return total
 
 
-def same_file(a: Path, b: Path) -> bool:
-    try:
-        return os.path.samefile(a, b)
-    except OSError:
-        return False

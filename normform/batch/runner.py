@@ -23,6 +23,7 @@ from normform.batch import clusters as clustering
 from normform.batch import engines, inputs, stats
 from normform.batch.process import Settings, dumps
 from normform.batch.store import Store, atomic_write
+from normform.safety import same_file
 
 OUTPUTS = ("records.jsonl", "references.bib", "needs-review.jsonl", "clusters.jsonl",
            "summary.json", "report.html")
@@ -67,7 +68,7 @@ def _chunks(items: Iterator, size: int, first_seq: int, counter: dict) -> Iterat
 def _check_outdir(paths_in: list[str], outdir: Path) -> None:
     """OUTDIR must be a directory of its own: not an input file, not an input directory."""
     for name in paths_in:
-        if inputs.same_file(Path(name), outdir):
+        if same_file(Path(name), outdir):
             raise CleanError(f"-o {outdir} is the input {name}; the inputs are never written to, "
                              "choose another output directory")
     if outdir.exists() and not outdir.is_dir():
@@ -77,7 +78,7 @@ def _check_outdir(paths_in: list[str], outdir: Path) -> None:
 def _check_outputs_do_not_clobber(paths: list[Path], outdir: Path) -> None:
     for path in paths:
         for name in OUTPUTS:
-            if inputs.same_file(path, outdir / name):
+            if same_file(path, outdir / name):
                 raise CleanError(f"input {path} is also an output ({outdir / name}); choose another -o")
         if outdir.resolve() / ".normform-work" in path.resolve().parents:
             raise CleanError(f"input {path} is inside the work directory of {outdir}")
@@ -88,7 +89,7 @@ def _check_library(against: str | None, outdir: Path) -> None:
     if against is None:
         return
     for name in OUTPUTS:
-        if inputs.same_file(Path(against), outdir / name):
+        if same_file(Path(against), outdir / name):
             raise CleanError(f"--against {against} is also an output ({outdir / name}); the library is "
                              "never written to: choose another -o or copy the library elsewhere")
 
