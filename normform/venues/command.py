@@ -50,14 +50,6 @@ def house_table_path(explicit: str | None, start: Path | None = None) -> Path | 
     return root / name
 
 
-def house_table(explicit: str | None, start: Path | None = None):
-    """The collection's own table (see :func:`house_table_path`), or None."""
-    from normform.venues.table import load_table
-
-    path = house_table_path(explicit, start)
-    return load_table(path) if path is not None else None
-
-
 def config_path(start: Path | None = None) -> str | None:
     """The configuration file the command reads, if any (an input too: never written)."""
     try:
@@ -246,13 +238,11 @@ def _bibtex(text: str, run: Run, path: str) -> str:
     return replace_values(text, changes) if changes else text
 
 
-def read_input(path: str, output: str | None = None) -> str:
-    """The text of INPUT.  ``output`` is refused when it is INPUT itself (never overwrite it);
-    the commands check all their files with :func:`normform.safety.refuse_overwrite` first."""
+def read_input(path: str) -> str:
+    """The text of INPUT (the commands refuse outputs on their inputs first, with
+    :func:`normform.safety.refuse_overwrite`)."""
     from normform.cli import UsageError
-    from normform.safety import refuse_overwrite
 
-    refuse_overwrite([("-o", output)], [("INPUT", path)])
     try:
         return Path(path).read_text("utf-8")
     except OSError as exc:
@@ -261,9 +251,9 @@ def read_input(path: str, output: str | None = None) -> str:
 
 def run(args: argparse.Namespace) -> int:
     from normform.errors import PositionedError
-    from normform.venues.style import VenueStyle
-
     from normform.safety import refuse_overwrite
+    from normform.venues.style import VenueStyle
+    from normform.venues.table import load_table
 
     src = Path(args.input)
     try:
@@ -276,7 +266,7 @@ def run(args: argparse.Namespace) -> int:
                       ("configuration file", config)])
     text = read_input(args.input)
     try:
-        style = VenueStyle(house=house_table(args.table))
+        style = VenueStyle(house=load_table(table) if table is not None else None)
     except PositionedError as exc:
         print(f"normform venues: {exc}", file=sys.stderr)
         return 2
