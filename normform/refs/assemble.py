@@ -84,8 +84,7 @@ _ABBREVIATED = re.compile(r"\b[A-Z][a-z]{0,7}\.\s")
 # a closing tag (its ">" may be cut off with the run) or a whole opening tag;
 # "a<b" in a formula is neither
 _HTML_PIECE = re.compile(r"</[A-Za-z][A-Za-z0-9]{0,9}>?|<[A-Za-z][A-Za-z0-9]{0,9}(?:\s[^<>]{0,300})?>")
-_PLACE_ABBREV = frozenset("mass. calif. conn. ill. mich. ont. penn. wis. minn. fla. n.y. n.j. d.c. u.s.a. u.k.".split()) \
-    | rp.REGION_ABBREV
+_PLACE_ABBREV = rp.REGION_ABBREV   # region abbreviations keep their dot on the place ("Mass.")
 _NEEDS_CLEAN = re.compile(r"[\\{}~$*_\t\n]|\s\s|,,|\.\.")
 
 
@@ -1305,12 +1304,11 @@ def _repairs(text: str, tokens: list[Token], labels: list[str], marg: list[float
         rp.repair_part_in_book(tokens, labels)
     if "editors" in labels and "container_title" not in labels and ("in" in words or "In" in words):
         rp.repair_book_in_editors(tokens, labels)
-    if "title" in labels and ":" in words and ("in" in words or "In" in words):
+    if "title" in labels and ":" in words and not words.isdisjoint(rp._IN):
         rp.repair_in_inside_title(tokens, labels)
     if "editors" in labels and "container_title" not in labels and "(" in words:
         rp.repair_title_in_bracketed_editors(tokens, labels)
-    if "container_title" in labels and ("editors" in labels or "edited" in words) \
-            and ("in" in words or "In" in words or "in:" in words or "In:" in words):
+    if "container_title" in labels and ("editors" in labels or "edited" in words) and not words.isdisjoint(rp._IN):
         rp.repair_split_book_title(tokens, labels)
     if "container_title" in labels:
         _repair_lone_container(tokens, labels)
