@@ -13,6 +13,7 @@ branches.
 from __future__ import annotations
 
 import re
+import threading
 from dataclasses import dataclass
 from fractions import Fraction
 from operator import itemgetter
@@ -1739,9 +1740,21 @@ def parse_statement(text: str) -> A.Statement:
     return _parse_statement(text)
 
 
+# The parser, its callbacks and the per-parse notes (_builder's sets, _DIRTY,
+# _DOTS_SEEN) are one per process, built once for speed: one parse at a time.
+# Threads parsing at once (a Dask worker runs chunks in threads) otherwise mixed
+# each other's notes ("'_Build' object has no attribute 'bound_names'").
+_PARSE_LOCK = threading.RLock()
+
+
 def _parse_statement(text: str) -> A.Statement:
     """:func:`parse_statement` of a str, without the ``deep`` wrapper (which texts of at most
     ``A.SHALLOW_TEXT`` characters do not need: ``parse_formula`` calls this for them)."""
+    with _PARSE_LOCK:
+        return _parse_locked(text)
+
+
+def _parse_locked(text: str) -> A.Statement:
     if len(text) > MAX_DEPTH:  # shorter text cannot break either limit
         _check_limits(text)
     if ("-" in text or "—" in text or "–" in text) and ("_" in text or ("," in text and _FOUR_DIGITS.search(text))):

@@ -52,21 +52,28 @@ class CannotCompute(ValueError):
 # ------------------------------------------------------------------ budget ---
 # A per-check time budget.  Loops of the compiled code (sums, products) look
 # at the deadline cooperatively; on the main thread an interval timer also
-# interrupts a long call into a named function (Bell(20000)).
+# interrupts a long call into a named function (Bell(20000)).  The deadline
+# is per thread: checks running in several threads at once (a threaded
+# server, a Dask worker) each save and restore their own, where one global
+# deadline left a finished thread's -- soon past -- deadline behind for all.
 
-_DEADLINE = float("inf")
+_NO_DEADLINE = float("inf")
+_local = threading.local()
+
+
+def _deadline() -> float:
+    return getattr(_local, "deadline", _NO_DEADLINE)
 
 
 @contextmanager
 def budget(seconds: float) -> Iterator[None]:
     """Run the body under a time budget; overrunning raises :class:`~normform.formula.recurrence.LimitExceeded`."""
-    global _DEADLINE
-    saved = _DEADLINE
-    _DEADLINE = min(saved, time.monotonic() + seconds)
+    saved = _deadline()
+    _local.deadline = min(saved, time.monotonic() + seconds)
     timer = False
     active = [True]
     if threading.current_thread() is threading.main_thread() and hasattr(signal, "setitimer") \
-            and signal.getsignal(signal.SIGALRM) in (signal.SIG_DFL, None) and saved == float("inf"):
+            and signal.getsignal(signal.SIGALRM) in (signal.SIG_DFL, None) and saved == _NO_DEADLINE:
         def on_alarm(signum: int, frame: Any) -> None:
             if active[0]:  # a late alarm after the body finished is ignored
                 raise R.LimitExceeded(f"time budget of {seconds:g} s spent")
@@ -77,14 +84,14 @@ def budget(seconds: float) -> Iterator[None]:
         yield
     finally:
         active[0] = False
-        _DEADLINE = saved
+        _local.deadline = saved
         if timer:
             signal.setitimer(signal.ITIMER_REAL, 0)
             signal.signal(signal.SIGALRM, signal.SIG_DFL)
 
 
 def _check_time() -> None:
-    if time.monotonic() > _DEADLINE:
+    if time.monotonic() > _deadline():
         raise R.LimitExceeded("time budget spent")
 
 
@@ -637,7 +644,7 @@ class SeriesReader(A.Visitor):
             raise CannotCompute(str(exc), node) from None
 
     def _tick(self) -> None:
-        if (self.deadline is not None and time.monotonic() > self.deadline) or time.monotonic() > _DEADLINE:
+        if (self.deadline is not None and time.monotonic() > self.deadline) or time.monotonic() > _deadline():
             raise R.LimitExceeded("time budget spent while expanding the generating function")
 
 
